@@ -1,0 +1,4 @@
+export * from "./types";
+export * from "./plan";
+export * from "./parse";
+export * from "./json";
