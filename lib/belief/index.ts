@@ -1,0 +1,3 @@
+export * from "./normalise";
+export * from "./belief";
+export * from "./filter";
