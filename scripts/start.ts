@@ -1,0 +1,106 @@
+/**
+ * `npm start`: private MariaDB, migrations, demo seed, production build when the sources
+ * changed, then the server on http://127.0.0.1:3000 (PORT overrides).
+ */
+import { execFileSync, spawn } from "node:child_process";
+import { createHash } from "node:crypto";
+import { existsSync, readFileSync, writeFileSync } from "node:fs";
+import path from "node:path";
+import { DEMO_USERS } from "../db/seed";
+import { keptSecret, prepareDatabase, ROOT } from "./local-env";
+
+const port = Number(process.env.PORT ?? 3000);
+const host = process.env.HOST ?? "127.0.0.1";
+const demoPassword = process.env.DEMO_PASSWORD ?? "demo-tessera";
+const publicUrl = process.env.NEXTAUTH_URL ?? `http://${host}:${port}`;
+
+function sourceStamp(): string {
+  const git = (args: string[]) => {
+    try {
+      return execFileSync("git", args, { cwd: ROOT, encoding: "utf8" });
+    } catch {
+      return String(Date.now());
+    }
+  };
+  return createHash("sha256").update(git(["rev-parse", "HEAD"])).update(git(["status", "--porcelain"])).digest("hex");
+}
+
+function buildIfStale(): void {
+  const stampFile = path.join(ROOT, ".next", "tessera-build-stamp");
+  const stamp = sourceStamp();
+  if (existsSync(path.join(ROOT, ".next", "BUILD_ID")) && existsSync(stampFile) && readFileSync(stampFile, "utf8") === stamp) {
+    console.log("tessera: production build is up to date");
+    return;
+  }
+  console.log("tessera: building the app (next build)");
+  execFileSync("npx", ["next", "build"], { cwd: ROOT, stdio: "inherit", env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" } });
+  writeFileSync(stampFile, stamp);
+}
+
+const secret = process.env.NEXTAUTH_SECRET ?? keptSecret("auth-secret");
+const db = await prepareDatabase({
+  instance: "mariadb",
+  port: Number(process.env.TESSERA_DB_PORT ?? 3407),
+  database: "tessera",
+  seed: { demoPassword },
+});
+buildIfStale();
+
+const server = spawn(process.execPath, ["--import", "tsx", "server/index.ts"], {
+  cwd: ROOT,
+  stdio: "inherit",
+  env: {
+    ...process.env,
+    NODE_ENV: "production",
+    PORT: String(port),
+    HOST: host,
+    DATABASE_URL: db.url,
+    NEXTAUTH_SECRET: secret,
+    NEXTAUTH_URL: publicUrl,
+    DEMO_PASSWORD: demoPassword,
+  },
+});
+
+async function waitForHealth(): Promise<boolean> {
+  const deadline = Date.now() + 60_000;
+  while (Date.now() < deadline) {
+    try {
+      const res = await fetch(`http://${host}:${port}/api/health`);
+      if (res.ok) return true;
+    } catch {
+      // not listening yet
+    }
+    await new Promise((resolve) => setTimeout(resolve, 250));
+  }
+  return false;
+}
+
+let stopping = false;
+async function stop(code: number): Promise<void> {
+  if (stopping) return;
+  stopping = true;
+  if (server.exitCode === null) {
+    server.kill("SIGTERM");
+    await new Promise((resolve) => server.once("exit", resolve));
+  }
+  if (db.local) {
+    console.log("tessera: stopping MariaDB");
+    await db.local.stop();
+  }
+  process.exit(code);
+}
+process.on("SIGINT", () => void stop(0));
+process.on("SIGTERM", () => void stop(0));
+server.on("exit", (code) => void stop(code ?? 1));
+
+if (await waitForHealth()) {
+  const accounts = DEMO_USERS.map((u) => `    ${u.role.padEnd(9)} ${u.email}`).join("\n");
+  console.log(
+    `\nTessera is up at ${publicUrl}\n  Demo accounts (password "${demoPassword}"):\n${accounts}\n` +
+      "  Moving robots can hurt people: keep people clear of robot paths and a physical emergency stop within reach.\n" +
+      "  Press Ctrl+C to stop.\n",
+  );
+} else {
+  console.error("tessera: the server did not report healthy within 60 s");
+  await stop(1);
+}

@@ -1,0 +1,83 @@
+/**
+ * next-auth configuration: e-mail and password against bcrypt hashes in MariaDB,
+ * JWT sessions that carry the user's id and role.
+ */
+import bcrypt from "bcryptjs";
+import type { NextAuthOptions } from "next-auth";
+import CredentialsProvider from "next-auth/providers/credentials";
+import { z } from "zod";
+import { findUserByEmail } from "../../db/queries/users";
+import { ROLES } from "../../lib/vocabulary";
+import { config } from "../config";
+import { appDb } from "../db";
+import { logger } from "../logger";
+
+const CredentialsSchema = z.object({
+  email: z.string().trim().toLowerCase().email(),
+  password: z.string().min(1).max(200),
+});
+
+export const SessionUserSchema = z.object({
+  id: z.string(),
+  email: z.string(),
+  name: z.string(),
+  role: z.enum(ROLES),
+});
+export type SessionUser = z.infer<typeof SessionUserSchema>;
+
+/** Checks an e-mail and password; null when either is wrong or the account is disabled. */
+export async function verifyCredentials(raw: unknown): Promise<SessionUser | null> {
+  const parsed = CredentialsSchema.safeParse(raw);
+  if (!parsed.success) return null;
+  const user = await findUserByEmail(appDb(), parsed.data.email);
+  if (!user || user.disabledAt) return null;
+  const ok = await bcrypt.compare(parsed.data.password, user.passwordHash);
+  if (!ok) {
+    logger.info({ email: parsed.data.email }, "sign-in refused: wrong password");
+    return null;
+  }
+  return { id: String(user.id), email: user.email, name: user.name, role: user.role };
+}
+
+export function authOptions(): NextAuthOptions {
+  return {
+    secret: config().NEXTAUTH_SECRET,
+    session: { strategy: "jwt", maxAge: 12 * 60 * 60 },
+    pages: { signIn: "/sign-in" },
+    providers: [
+      CredentialsProvider({
+        name: "Tessera account",
+        credentials: { email: { label: "E-mail", type: "email" }, password: { label: "Password", type: "password" } },
+        authorize: (credentials) => verifyCredentials(credentials),
+      }),
+    ],
+    callbacks: {
+      jwt({ token, user }) {
+        if (user) {
+          const u = user as SessionUser;
+          token.uid = u.id;
+          token.role = u.role;
+        }
+        return token;
+      },
+      session({ session, token }) {
+        const parsed = SessionUserSchema.safeParse({
+          id: token.uid,
+          email: token.email,
+          name: token.name,
+          role: token.role,
+        });
+        if (parsed.success) (session as unknown as { user: SessionUser }).user = parsed.data;
+        return session;
+      },
+    },
+  };
+}
+
+/** Reads the signed-in user from a decoded next-auth JWT; null when it lacks our claims. */
+export function userFromToken(token: unknown): SessionUser | null {
+  if (!token || typeof token !== "object") return null;
+  const t = token as Record<string, unknown>;
+  const parsed = SessionUserSchema.safeParse({ id: t.uid, email: t.email, name: t.name, role: t.role });
+  return parsed.success ? parsed.data : null;
+}

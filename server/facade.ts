@@ -1,0 +1,8 @@
+/** What app/ may use of the server: a deliberately small surface. */
+import "server-only";
+
+export { authOptions, type SessionUser } from "./auth/options";
+export { route, errorResponse } from "./http/route";
+export { TesseraError } from "./errors";
+export { healthReport } from "./health";
+export { currentUser, requirePageRole } from "./auth/page-guard";

@@ -1,0 +1,56 @@
+import { createServer } from "node:http";
+import next from "next";
+import { Server } from "socket.io";
+import { closeDb } from "../db/client";
+import { config } from "./config";
+import { appDb } from "./db";
+import { logger } from "./logger";
+import { attachOpsFeed } from "./ops-feed";
+import { registry } from "./registry";
+import { attachRobotLink } from "./robot-link";
+
+/** Messages over this size are refused by socket.io itself before any parsing. */
+const MAX_MESSAGE_BYTES = 64 * 1024;
+
+export async function startTessera(): Promise<void> {
+  const c = config();
+  const dev = c.NODE_ENV !== "production";
+  const app = next({ dev, hostname: c.HOST, port: c.PORT, dir: process.cwd() });
+  await app.prepare();
+  const handle = app.getRequestHandler();
+
+  const http = createServer((req, res) => {
+    handle(req, res).catch((err: unknown) => {
+      logger.error({ err, url: req.url }, "request failed");
+      res.statusCode = 500;
+      res.end("Internal error");
+    });
+  });
+
+  const io = new Server(http, { path: "/socket.io", maxHttpBufferSize: MAX_MESSAGE_BYTES, serveClient: false });
+  registry().io = io;
+  const db = appDb();
+  attachRobotLink(io, db);
+  attachOpsFeed(io);
+
+  await new Promise<void>((resolve) => http.listen(c.PORT, c.HOST, resolve));
+  logger.info({ url: `http://${c.HOST}:${c.PORT}`, mode: dev ? "development" : "production" }, "Tessera is listening");
+
+  let stopping = false;
+  const shutdown = async (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    logger.info({ signal }, "shutting down");
+    const force = setTimeout(() => process.exit(1), 10_000);
+    force.unref();
+    await new Promise<void>((resolve) => {
+      io.close(() => resolve());
+      http.closeAllConnections?.();
+    });
+    await closeDb();
+    logger.info("stopped");
+    process.exit(0);
+  };
+  process.on("SIGINT", () => void shutdown("SIGINT"));
+  process.on("SIGTERM", () => void shutdown("SIGTERM"));
+}
