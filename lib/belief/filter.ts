@@ -101,8 +101,8 @@ export function createFilter(plan: Floorplan, model: MotionModel, sensors: reado
   const mixFloor = fillFreeStates(plan, new Float64Array(states), model.mix / freeStates);
   const keep = 1 - model.mix;
   const classes = markClasses(plan);
-  let current = uniformBelief(plan);
-  let spare = new Float64Array(states);
+  let current: Float64Array = uniformBelief(plan);
+  let spare: Float64Array = new Float64Array(states);
   const scratch = new Float64Array(states);
 
   const swap = (): void => {
