@@ -3,9 +3,11 @@
 set -euo pipefail
 cd "$(dirname "$0")/.."
 export NEXT_TELEMETRY_DISABLED=1
+export LOG_LEVEL="${LOG_LEVEL:-warn}"
 bash scripts/ensure-deps.sh
 bash scripts/ensure-chromium.sh
 echo "tessera: type check"
+npx next typegen >/dev/null
 npx tsc --noEmit -p .
 echo "tessera: lint"
 npx eslint . --max-warnings 0

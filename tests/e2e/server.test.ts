@@ -1,0 +1,58 @@
+/** The running server's public doors: health, the sign-in endpoints scripts use, /robot refusal. */
+import { io as connect } from "socket.io-client";
+import { afterAll, describe, expect, inject, it } from "vitest";
+import { closeDb, openDb } from "../../db/client";
+import { insertTestRobot } from "../support/robot-fixtures";
+
+const appUrl = inject("appUrl");
+
+afterAll(async () => {
+  await closeDb();
+});
+
+function connectError(namespace: string, opts: { auth?: Record<string, unknown>; extraHeaders?: Record<string, string> }): Promise<unknown> {
+  return new Promise((resolve) => {
+    const socket = connect(`${appUrl}${namespace}`, { ...opts, reconnection: false, transports: ["websocket"] });
+    socket.on("connect", () => {
+      socket.close();
+      resolve("connected");
+    });
+    socket.on("connect_error", (err) => {
+      socket.close();
+      resolve((err as Error & { data?: unknown }).data);
+    });
+  });
+}
+
+describe("server", () => {
+  it("reports the database up on GET /api/health", async () => {
+    const res = await fetch(`${appUrl}/api/health`);
+    expect(res.status).toBe(200);
+    expect(await res.json()).toEqual({ ok: true, db: true, version: expect.stringMatching(/^\d+\.\d+\.\d+$/) });
+  });
+
+  it("signs a script in through next-auth's csrf and credentials endpoints", async () => {
+    const csrfRes = await fetch(`${appUrl}/api/auth/csrf`);
+    const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
+    const cookie = csrfRes.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
+    const signIn = await fetch(`${appUrl}/api/auth/callback/credentials`, {
+      method: "POST",
+      redirect: "manual",
+      headers: { "content-type": "application/x-www-form-urlencoded", cookie },
+      body: new URLSearchParams({ csrfToken, email: "admin@tessera.test", password: "demo-tessera", json: "true" }),
+    });
+    const session = signIn.headers.getSetCookie().find((c) => c.startsWith("next-auth.session-token="));
+    expect(session).toBeDefined();
+    const me = await fetch(`${appUrl}/api/auth/session`, { headers: { cookie: `${cookie}; ${session?.split(";")[0]}` } });
+    expect(await me.json()).toMatchObject({ user: { email: "admin@tessera.test", role: "admin" } });
+  });
+
+  it("refuses a registered robot presenting a wrong key with connect_error bad_key", async () => {
+    const robot = await insertTestRobot(openDb(inject("databaseUrl")));
+    expect(await connectError("/robot", { auth: { robot: robot.id, key: "tsk_wrong" } })).toEqual({ code: "bad_key" });
+  });
+
+  it("refuses a dashboard socket without a session", async () => {
+    expect(await connectError("/ops", {})).toEqual({ code: "unauthorized" });
+  });
+});
