@@ -8,3 +8,4 @@ export * from "./sensing";
 export * from "./planning";
 export * from "./control";
 export * from "./kinematics";
+export * from "./protocol";

@@ -27,3 +27,30 @@ export const HEADING_STEP: readonly (readonly [number, number])[] = [
   [1, 0],
   [0, -1],
 ];
+
+/** What a robot is doing, as the live floor shows it. */
+export const ROBOT_STATES = ["idle", "under_way", "held", "arrived", "offline"] as const;
+export type RobotState = (typeof ROBOT_STATES)[number];
+
+/** Why a robot is held (PROTOCOL.md, `hold`). */
+export const HOLD_REASONS = ["low_certainty", "operator", "offline", "traffic", "fault"] as const;
+export type HoldReason = (typeof HOLD_REASONS)[number];
+
+/** How a mission ended (PROTOCOL.md, `done`). */
+export const MISSION_OUTCOMES = ["reached", "aborted", "failed"] as const;
+export type MissionOutcome = (typeof MISSION_OUTCOMES)[number];
+
+/** A mission row's state: active until it ends with one of the outcomes. */
+export const MISSION_STATES = ["active", ...MISSION_OUTCOMES] as const;
+export type MissionState = (typeof MISSION_STATES)[number];
+
+/** Refusal codes of a robot message's acknowledgement (PROTOCOL.md). */
+export const ACK_CODES = ["bad_message", "too_large", "out_of_order", "no_mission", "rate_limited", "internal"] as const;
+export type AckCode = (typeof ACK_CODES)[number];
+
+/** Refusal codes of a /robot handshake (PROTOCOL.md). */
+export const HANDSHAKE_CODES = ["bad_key", "unknown_robot", "retired", "already_connected"] as const;
+export type HandshakeCode = (typeof HANDSHAKE_CODES)[number];
+
+export const ALERT_KINDS = ["low_certainty", "offline", "fault", "traffic", "battery"] as const;
+export type AlertKind = (typeof ALERT_KINDS)[number];

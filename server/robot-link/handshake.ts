@@ -4,10 +4,9 @@ import type { Socket } from "socket.io";
 import { z } from "zod";
 import type { Db } from "../../db/client";
 import { robots, type Robot } from "../../db/schema";
+import type { HandshakeCode } from "../../lib/vocabulary";
 import { verifyRobotKey } from "./keys";
 
-export const HANDSHAKE_CODES = ["bad_key", "unknown_robot", "retired", "already_connected"] as const;
-export type HandshakeCode = (typeof HANDSHAKE_CODES)[number];
 
 const HandshakeAuthSchema = z.object({
   robot: z.string().min(1).max(40),

@@ -1,0 +1,2 @@
+export * from "./robot-link";
+export * from "./ops-feed";
