@@ -5,8 +5,11 @@
  * update. This is what the fleet service holds per robot; the pure functions
  * motionUpdate and senseUpdate give the same numbers (checked in the tests).
  *
- * Assumes the filter's own belief stays normalised between calls, so the
- * motion step needs no extra pass to normalise its input. The tables depend
+ * Departs from the textbook's order of work, not its numbers: the prediction
+ * is computed "pull" style (each state gathers from its few source states),
+ * fused with the correction into one sequential pass, and the normalisation
+ * is deferred to the next update (which divides by the prior's mass) or to
+ * whoever reads `belief`. The tables depend
  * only on (plan, model) and (plan, sensors), so robots that share them may
  * pass them in via opts instead of building their own.
  * Reference: Probabilistic Robotics (2005) §4.1, the discrete Bayes filter.
@@ -16,16 +19,16 @@ import { stateCount } from "../floorplan/types";
 import type { MotionModel } from "../motion/model";
 import type { TransitionTable } from "../motion/transitions";
 import { buildTransitions } from "../motion/transitions";
-import { actionIndex, applyTransitions } from "../motion/update";
+import { actionIndex } from "../motion/update";
 import type { SensorModel, SensorReading, SensorSpec } from "../sensing/model";
 import type { RangeTable } from "../sensing/ray-cast";
 import { buildRangeTable } from "../sensing/ray-cast";
-import type { ReadingFactor, SenseOutcome } from "../sensing/update";
-import { correctInto, markClasses, readingFactors } from "../sensing/update";
+import type { SenseOutcome } from "../sensing/update";
+import { applyFactors, correctInto, markClasses, readingFactors } from "../sensing/update";
 import type { Action } from "../vocabulary";
 import type { Certainty } from "./belief";
 import { certainty, uniformBelief } from "./belief";
-import { fillFreeStates, freeStateCount } from "./normalise";
+import { freeStateCount } from "./normalise";
 
 export interface FilterOptions {
   /** A table from buildTransitions(plan, model), shared between robots. */
@@ -51,42 +54,120 @@ export interface Filter {
   motion(action: Action | number): void;
   /** Applies one message's readings (correction step). */
   sense(readings: readonly SensorReading[]): SenseOutcome;
-  /** motion then sense, the step cycle of the robot link. */
+  /** motion then sense in one pass, the step cycle of the robot link. */
   step(action: Action | number, readings: readonly SensorReading[]): SenseOutcome;
   /** Certainty figures of the current belief. */
   certainty(): Certainty;
 }
 
 const MIN_MASS = 1e-290;
+/** Incoming outcomes per (state, action): the models of motion/transitions.ts give at most three (self, one or two tiles behind, or the turn's source). */
+const SLOTS = 3;
 
-/** Multiplies prior by every factor into out in one pass and returns the total; factors are range (bin per state) or floor (mark per tile). */
-function fusedCorrect(plan: Floorplan, prior: Float64Array, factors: readonly ReadingFactor[], out: Float64Array): number {
-  const states = prior.length;
-  const ranged = factors.filter((f) => f.bin !== undefined);
-  const floors = factors.filter((f) => f.bin === undefined);
-  let sum = 0;
-  if (ranged.length === 3 && floors.length === 0) {
-    const [f0, f1, f2] = ranged.map((f) => f.factor);
-    const [b0, b1, b2] = ranged.map((f) => f.bin as Uint16Array);
-    for (let s = 0; s < states; s++) {
-      const v = prior[s] * f0[b0[s]] * f1[b1[s]] * f2[b2[s]];
-      out[s] = v;
-      sum += v;
+/**
+ * The transition table turned around for one action and compressed: every target state t gets a pattern
+ * code[t], and pattern p pulls from states t + delta[3p + k] with probability prob[3p + k] (already scaled by
+ * 1 − mix, padded with probability 0) and adds the mixing floor floor[p]. Away from walls all states of one
+ * heading share a pattern, so a plan has a few dozen patterns and the per-state data is two bytes.
+ */
+interface PullTable {
+  code: Uint16Array;
+  delta: Int32Array;
+  prob: Float64Array;
+  floor: Float64Array;
+}
+
+function compressPull(states: number, src: Int32Array, prob: Float64Array, floorOf: (t: number) => number): PullTable {
+  const code = new Uint16Array(states);
+  const ids = new Map<string, number>();
+  const deltas: number[] = [];
+  const probs: number[] = [];
+  const floors: number[] = [];
+  for (let t = 0; t < states; t++) {
+    const j = t * SLOTS;
+    const floor = floorOf(t);
+    const key = `${floor}|${src[j] - t},${prob[j]}|${src[j + 1] - t},${prob[j + 1]}|${src[j + 2] - t},${prob[j + 2]}`;
+    let id = ids.get(key);
+    if (id === undefined) {
+      id = floors.length;
+      if (id > 0xffff) throw new RangeError("more than 65536 transition patterns");
+      ids.set(key, id);
+      floors.push(floor);
+      for (let k = 0; k < SLOTS; k++) {
+        deltas.push(src[j + k] - t);
+        probs.push(prob[j + k]);
+      }
     }
-    return sum;
+    code[t] = id;
   }
-  out.set(prior);
-  const mark = plan.mark;
-  for (const f of floors) {
-    const factor = f.factor;
-    for (let s = 0; s < states; s++) out[s] *= factor[mark[s >> 2]];
+  return { code, delta: Int32Array.from(deltas), prob: Float64Array.from(probs), floor: Float64Array.from(floors) };
+}
+
+function buildPullTables(plan: Floorplan, table: TransitionTable, mix: number, mixFloor: number): PullTable[] {
+  const states = table.states;
+  const pulls: PullTable[] = [];
+  for (let a = 0; a < 4; a++) {
+    const src = new Int32Array(states * SLOTS);
+    const prob = new Float64Array(states * SLOTS);
+    const used = new Uint8Array(states);
+    for (let t = 0; t < states; t++) src.fill(t, t * SLOTS, (t + 1) * SLOTS);
+    for (let s = 0; s < states; s++) {
+      for (let e = table.offsets[s * 4 + a]; e < table.offsets[s * 4 + a + 1]; e++) {
+        const t = table.next[e];
+        let k = 0;
+        while (k < used[t] && src[t * SLOTS + k] !== s) k++;
+        if (k === used[t]) {
+          if (k === SLOTS) throw new RangeError(`state ${t} has more than ${SLOTS} source states under action ${a}`);
+          used[t]++;
+          src[t * SLOTS + k] = s;
+        }
+        prob[t * SLOTS + k] += (1 - mix) * table.prob[e];
+      }
+    }
+    pulls.push(compressPull(states, src, prob, (t) => (plan.blocked[t >> 2] === 0 ? mixFloor : 0)));
   }
-  for (const f of ranged) {
-    const factor = f.factor;
-    const bin = f.bin as Uint16Array;
-    for (let s = 0; s < states; s++) out[s] *= factor[bin[s]];
+  return pulls;
+}
+
+/** The identity as a pull table without mixing (the correction step alone). */
+function identityPull(plan: Floorplan, states: number): PullTable {
+  const src = new Int32Array(states * SLOTS);
+  const prob = new Float64Array(states * SLOTS);
+  for (let t = 0; t < states; t++) {
+    src.fill(t, t * SLOTS, (t + 1) * SLOTS);
+    prob[t * SLOTS] = plan.blocked[t >> 2] === 0 ? 1 : 0;
   }
-  for (let s = 0; s < states; s++) sum += out[s];
+  return compressPull(states, src, prob, () => 0);
+}
+
+/**
+ * out[t] = (floor[p] + scale · Σ_k prob[3p+k] · prior[t + delta[3p+k]]) · f0[b0[t]] · f1[b1[t]] · f2[b2[t]] · extra[t]
+ * with p = code[t]; returns Σ out. `scale` is 1 / (mass of prior). Unused factor slots hold [1] and all-zero bins.
+ */
+function pullAndCorrect(
+  pull: PullTable,
+  prior: Float64Array,
+  scale: number,
+  out: Float64Array,
+  f0: Float64Array,
+  b0: Uint16Array,
+  f1: Float64Array,
+  b1: Uint16Array,
+  f2: Float64Array,
+  b2: Uint16Array,
+  extra: Float64Array,
+): number {
+  const { code, delta, prob, floor } = pull;
+  const states = out.length;
+  let sum = 0;
+  for (let t = 0; t < states; t++) {
+    const p = code[t];
+    const j = p * 3;
+    const pulled = prob[j] * prior[t + delta[j]] + prob[j + 1] * prior[t + delta[j + 1]] + prob[j + 2] * prior[t + delta[j + 2]];
+    const v = (floor[p] + scale * pulled) * f0[b0[t]] * f1[b1[t]] * f2[b2[t]] * extra[t];
+    out[t] = v;
+    sum += v;
+  }
   return sum;
 }
 
@@ -98,40 +179,60 @@ export function createFilter(plan: Floorplan, model: MotionModel, sensors: reado
   if (table.states !== states || ranges.states !== states) throw new RangeError("tables were built for another plan");
   const fallbackMix = opts.fallbackMix ?? 0.05;
   const freeStates = freeStateCount(plan);
-  const mixFloor = fillFreeStates(plan, new Float64Array(states), model.mix / freeStates);
-  const keep = 1 - model.mix;
+  const pulls = buildPullTables(plan, table, model.mix, model.mix / freeStates);
+  const identity = identityPull(plan, states);
   const classes = markClasses(plan);
+  const one = Float64Array.of(1);
+  const zeroBins = new Uint16Array(states);
+  const ones = new Float64Array(states).fill(1);
+  const extra = new Float64Array(states);
+  const scratch = new Float64Array(states);
   let current: Float64Array = uniformBelief(plan);
   let spare: Float64Array = new Float64Array(states);
-  const scratch = new Float64Array(states);
+  // The belief is kept unnormalised between updates (its mass in `mass`): every update divides by the prior's
+  // mass on the fly, so the separate normalisation pass runs only when someone reads `belief`.
+  let mass = 1;
 
-  const swap = (): void => {
+  const normalise = (): void => {
+    if (mass === 1) return;
+    const inv = 1 / mass;
+    for (let s = 0; s < states; s++) current[s] *= inv;
+    mass = 1;
+  };
+
+  const update = (pull: PullTable, readings: readonly SensorReading[] | null): SenseOutcome => {
+    const { factors, ignored } = readings === null ? { factors: [], ignored: [] } : readingFactors(plan, readings, sensors, sensorModel, ranges, classes);
+    const ranged = factors.filter((f) => f.bin !== undefined).slice(0, 3);
+    const rest = factors.filter((f) => !ranged.includes(f));
+    let extraL = ones;
+    if (rest.length > 0) {
+      extra.fill(1);
+      applyFactors(plan, rest, extra);
+      extraL = extra;
+    }
+    const slot = (k: number): [Float64Array, Uint16Array] => (k < ranged.length ? [ranged[k].factor, ranged[k].bin as Uint16Array] : [one, zeroBins]);
+    const [f0, b0] = slot(0);
+    const [f1, b1] = slot(1);
+    const [f2, b2] = slot(2);
+    const sum = pullAndCorrect(pull, current, 1 / mass, spare, f0, b0, f1, b1, f2, b2, extraL);
+    let fellBack = false;
+    if (sum > MIN_MASS && Number.isFinite(sum)) {
+      mass = sum;
+    } else {
+      pullAndCorrect(pull, current, 1 / mass, scratch, one, zeroBins, one, zeroBins, one, zeroBins, ones);
+      fellBack = correctInto(plan, scratch, factors, spare, fallbackMix);
+      mass = 1;
+    }
     const t = current;
     current = spare;
     spare = t;
+    return { fellBack, ignored };
   };
 
   const motion = (action: Action | number): void => {
-    const a = actionIndex(action);
-    spare.set(mixFloor);
-    applyTransitions(table, current, a, keep, spare);
-    swap();
+    update(pulls[actionIndex(action)], null);
   };
-
-  const sense = (readings: readonly SensorReading[]): SenseOutcome => {
-    const { factors, ignored } = readingFactors(plan, readings, sensors, sensorModel, ranges, classes);
-    if (factors.length === 0) return { fellBack: false, ignored };
-    const sum = fusedCorrect(plan, current, factors, spare);
-    if (sum > MIN_MASS && Number.isFinite(sum)) {
-      const inv = 1 / sum;
-      for (let s = 0; s < states; s++) spare[s] *= inv;
-      swap();
-      return { fellBack: false, ignored };
-    }
-    const fellBack = correctInto(plan, current, factors, spare, fallbackMix, scratch);
-    swap();
-    return { fellBack, ignored };
-  };
+  const sense = (readings: readonly SensorReading[]): SenseOutcome => update(identity, readings);
 
   return {
     plan,
@@ -141,9 +242,11 @@ export function createFilter(plan: Floorplan, model: MotionModel, sensors: reado
     table,
     ranges,
     get belief() {
+      normalise();
       return current;
     },
     reset(belief?: ArrayLike<number>) {
+      mass = 1;
       if (belief === undefined) {
         current.set(uniformBelief(plan));
         return;
@@ -161,8 +264,7 @@ export function createFilter(plan: Floorplan, model: MotionModel, sensors: reado
     motion,
     sense,
     step(action, readings) {
-      motion(action);
-      return sense(readings);
+      return update(pulls[actionIndex(action)], readings);
     },
     certainty() {
       return certainty(plan, current);
