@@ -1,11 +1,17 @@
 /**
- * Demo data of Tessera's own invented site. Idempotent: running it again leaves
- * existing rows (and anything users changed) alone.
+ * Demo data of Tessera's own invented site, the North Annex lab. Idempotent: running it
+ * again leaves existing rows (and anything users changed) alone.
  */
+import { readFileSync } from "node:fs";
 import bcrypt from "bcryptjs";
+import { eq } from "drizzle-orm";
+import { parseFloorplan } from "../lib/floorplan";
+import type { SensorSpec } from "../lib/sensing";
+import type { Drive, Heading, Role } from "../lib/vocabulary";
 import type { Db } from "./client";
-import { users } from "./schema";
-import type { Role } from "../lib/vocabulary";
+import { createFloorplan, floorplanByName } from "./queries/floorplans";
+import { generateRobotKey, hashRobotKey, verifyRobotKey } from "./robot-keys";
+import { robots, users } from "./schema";
 
 export const DEMO_USERS: readonly { email: string; name: string; role: Role }[] = [
   { email: "admin@tessera.test", name: "Ada Okafor", role: "admin" },
@@ -13,9 +19,83 @@ export const DEMO_USERS: readonly { email: string; name: string; role: Role }[] 
   { email: "viewer@tessera.test", name: "Mei Lindqvist", role: "viewer" },
 ];
 
-export async function seedDemo(db: Db, opts: { demoPassword: string }): Promise<void> {
+export const DEMO_FLOORPLAN_NAME = "North Annex lab";
+export const DEMO_FLOORPLAN_FILE = new URL("./seed-data/demo-lab.txt", import.meta.url);
+
+/** Front, left and right ultrasonic rangers (3 m) and a downward floor-mark sensor. */
+const DEMO_SENSORS: SensorSpec[] = [
+  { id: "us-front", kind: "range", bearingDeg: 0, maxRangeM: 3 },
+  { id: "us-left", kind: "range", bearingDeg: 90, maxRangeM: 3 },
+  { id: "us-right", kind: "range", bearingDeg: -90, maxRangeM: 3 },
+  { id: "floor", kind: "floor" },
+];
+
+export interface DemoRobot {
+  id: string;
+  name: string;
+  drive: Drive;
+  sensors: SensorSpec[];
+  start: { row: number; col: number; heading: Heading };
+}
+
+export const DEMO_ROBOTS: readonly DemoRobot[] = [
+  { id: "nx-kestrel", name: "Kestrel", drive: "differential", sensors: DEMO_SENSORS, start: { row: 2, col: 3, heading: "E" } },
+  { id: "nx-otter", name: "Otter", drive: "differential", sensors: DEMO_SENSORS, start: { row: 10, col: 12, heading: "W" } },
+  { id: "nx-magpie", name: "Magpie", drive: "differential", sensors: DEMO_SENSORS, start: { row: 7, col: 24, heading: "N" } },
+  { id: "nx-badger", name: "Badger", drive: "bicycle", sensors: DEMO_SENSORS, start: { row: 16, col: 20, heading: "S" } },
+];
+
+export interface DemoFleetCredentials {
+  robots: (DemoRobot & { key: string })[];
+}
+
+export async function seedDemoUsers(db: Db, opts: { demoPassword: string }): Promise<void> {
   const passwordHash = await bcrypt.hash(opts.demoPassword, 10);
   for (const user of DEMO_USERS) {
     await db.insert(users).ignore().values({ ...user, passwordHash });
   }
+}
+
+/** The demo floorplan's id, created on first run. */
+export async function seedDemoFloorplan(db: Db): Promise<number> {
+  const existing = await floorplanByName(db, DEMO_FLOORPLAN_NAME);
+  if (existing) return existing.id;
+  const plan = parseFloorplan(readFileSync(DEMO_FLOORPLAN_FILE, "utf8"));
+  const { floorplanId } = await createFloorplan(db, { name: DEMO_FLOORPLAN_NAME, plan, isDefault: true, note: "Demo floor, as drawn" });
+  return floorplanId;
+}
+
+/**
+ * Registers the demo robots. Keys are only stored hashed, so the simulators' keys come
+ * from `known` (the credentials file of an earlier run); a robot whose key is not known
+ * gets a fresh one.
+ */
+export async function seedDemoFleet(db: Db, floorplanId: number, known: Record<string, string> = {}): Promise<DemoFleetCredentials> {
+  const out: DemoFleetCredentials = { robots: [] };
+  for (const robot of DEMO_ROBOTS) {
+    const rows = await db.select().from(robots).where(eq(robots.id, robot.id)).limit(1);
+    const row = rows[0];
+    const knownKey = known[robot.id];
+    if (row && knownKey && verifyRobotKey(knownKey, row.keyHash)) {
+      out.robots.push({ ...robot, key: knownKey });
+      continue;
+    }
+    const key = generateRobotKey();
+    if (row) {
+      await db.update(robots).set({ keyHash: hashRobotKey(key) }).where(eq(robots.id, robot.id));
+    } else {
+      await db.insert(robots).values({
+        id: robot.id,
+        name: robot.name,
+        keyHash: hashRobotKey(key),
+        drive: robot.drive,
+        model: robot.drive === "bicycle" ? "Annex tricycle cart" : "Annex two-wheel base",
+        sensors: robot.sensors,
+        simulated: true,
+        floorplanId,
+      });
+    }
+    out.robots.push({ ...robot, key });
+  }
+  return out;
 }

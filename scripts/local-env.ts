@@ -8,7 +8,7 @@ import path from "node:path";
 import { closeDb, openDb } from "../db/client";
 import { startLocalMariadb, type LocalMariadb } from "../db/local-mariadb";
 import { migrateDb } from "../db/migrate";
-import { seedDemo } from "../db/seed";
+import { seedDemoFleet, seedDemoFloorplan, seedDemoUsers, type DemoFleetCredentials } from "../db/seed";
 
 export const ROOT = path.resolve(import.meta.dirname, "..");
 export const DATA_DIR = path.join(ROOT, ".data");
@@ -26,6 +26,18 @@ export function keptSecret(name: string, bytes = 32): string {
 export interface PreparedDb {
   url: string;
   local?: LocalMariadb;
+  /** The demo robots' ids and keys, when seeded. */
+  fleet?: DemoFleetCredentials;
+}
+
+function readKnownKeys(file: string): Record<string, string> {
+  if (!existsSync(file)) return {};
+  try {
+    const parsed = JSON.parse(readFileSync(file, "utf8")) as DemoFleetCredentials;
+    return Object.fromEntries(parsed.robots.map((r) => [r.id, r.key]));
+  } catch {
+    return {};
+  }
 }
 
 /** Brings up the database (private instance unless DATABASE_URL is set) and migrates it. */
@@ -34,7 +46,8 @@ export async function prepareDatabase(opts: {
   port: number;
   database: string;
   fresh?: boolean;
-  seed?: { demoPassword: string };
+  /** Seeds the demo; the fleet's keys are kept in `fleetFile` (under .data/) across runs. */
+  seed?: { demoPassword: string; fleetFile?: string };
   log?: (line: string) => void;
 }): Promise<PreparedDb> {
   const log = opts.log ?? ((line: string) => console.log(`tessera: ${line}`));
@@ -59,7 +72,14 @@ export async function prepareDatabase(opts: {
   }
   const fresh = openDb(url);
   await migrateDb(fresh);
-  if (opts.seed) await seedDemo(fresh, opts.seed);
+  let fleet: DemoFleetCredentials | undefined;
+  if (opts.seed) {
+    await seedDemoUsers(fresh, opts.seed);
+    const floorplanId = await seedDemoFloorplan(fresh);
+    const file = opts.seed.fleetFile;
+    fleet = await seedDemoFleet(fresh, floorplanId, file ? readKnownKeys(file) : {});
+    if (file) writeFileSync(file, `${JSON.stringify(fleet, null, 2)}\n`, { mode: 0o600 });
+  }
   await closeDb();
-  return { url, local };
+  return { url, local, fleet };
 }

@@ -7,7 +7,7 @@ import { createHash } from "node:crypto";
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { DEMO_USERS } from "../db/seed";
-import { keptSecret, prepareDatabase, ROOT } from "./local-env";
+import { DATA_DIR, keptSecret, prepareDatabase, ROOT } from "./local-env";
 
 const port = Number(process.env.PORT ?? 3000);
 const host = process.env.HOST ?? "127.0.0.1";
@@ -42,7 +42,7 @@ const db = await prepareDatabase({
   instance: "mariadb",
   port: Number(process.env.TESSERA_DB_PORT ?? 3407),
   database: "tessera",
-  seed: { demoPassword },
+  seed: { demoPassword, fleetFile: path.join(DATA_DIR, "demo-fleet.json") },
 });
 buildIfStale();
 

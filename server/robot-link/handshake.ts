@@ -5,7 +5,7 @@ import { z } from "zod";
 import type { Db } from "../../db/client";
 import { robots, type Robot } from "../../db/schema";
 import type { HandshakeCode } from "../../lib/vocabulary";
-import { verifyRobotKey } from "./keys";
+import { verifyRobotKey } from "../../db/robot-keys";
 
 
 const HandshakeAuthSchema = z.object({

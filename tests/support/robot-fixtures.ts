@@ -2,7 +2,7 @@
 import { randomUUID } from "node:crypto";
 import type { Db } from "../../db/client";
 import { robots } from "../../db/schema";
-import { generateRobotKey, hashRobotKey } from "../../server/robot-link/keys";
+import { generateRobotKey, hashRobotKey } from "../../db/robot-keys";
 
 export async function insertTestRobot(db: Db, overrides: { retired?: boolean; simulated?: boolean } = {}) {
   const id = `rb-${randomUUID().slice(0, 8)}`;
