@@ -1,10 +1,17 @@
 import type { Metadata } from "next";
-import { ComingLater } from "@/components/shell/ComingLater";
-import { requirePageRole } from "@/server/facade";
+import { LiveFloor } from "@/components/floor/LiveFloor";
+import { liveFloorSnapshot, requirePageRole } from "@/server/facade";
 
 export const metadata: Metadata = { title: "Live floor" };
 
-export default async function Page() {
-  await requirePageRole("viewer", "/floor");
-  return <ComingLater title="Live floor" what="The shared floor view with every robot's belief, dispatch and holds arrives with the fleet service." />;
+function floorplanParam(raw: string | string[] | undefined): number | undefined {
+  const value = Array.isArray(raw) ? raw[0] : raw;
+  return value !== undefined && /^\d{1,9}$/.test(value) ? Number(value) : undefined;
+}
+
+export default async function Page({ searchParams }: { searchParams: Promise<{ floorplan?: string | string[] }> }) {
+  const user = await requirePageRole("viewer", "/floor");
+  const snapshot = await liveFloorSnapshot(floorplanParam((await searchParams).floorplan));
+  // A new floorplan gets a fresh store and socket room rather than a patched one.
+  return <LiveFloor key={snapshot.floorplan.id} snapshot={snapshot} role={user.role} />;
 }

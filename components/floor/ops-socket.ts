@@ -1,0 +1,98 @@
+/**
+ * The /ops socket for one live floor page: joins the floorplan's room, feeds frames into
+ * the floor store, resyncs after every reconnect, and sends commands with an
+ * acknowledgement that always settles (a lost link answers with a timeout error).
+ */
+"use client";
+
+import { useCallback, useEffect, useRef } from "react";
+import { io, type Socket } from "socket.io-client";
+import { AlertFrameSchema, OPS_EVENTS, RobotFrameSchema, type LiveFloorSnapshot, type OpsAck, type OpsCommand, type OpsCommandName } from "@/lib/protocol/ops-feed";
+import { beliefFromWire } from "./belief";
+import type { FloorStore } from "./store";
+
+/** How long a command waits for its acknowledgement before the client gives up, in ms. */
+export const COMMAND_TIMEOUT_MS = 8000;
+
+export type SendCommand = <K extends Exclude<OpsCommandName, "watch">>(name: K, payload: OpsCommand<K>) => Promise<OpsAck>;
+
+function looksLikeSnapshot(data: unknown): data is Pick<LiveFloorSnapshot, "robots" | "alerts"> {
+  return typeof data === "object" && data !== null && Array.isArray((data as { robots?: unknown }).robots) && Array.isArray((data as { alerts?: unknown }).alerts);
+}
+
+function refusal(code: string, message: string): OpsAck {
+  return { ok: false, error: { code, message } };
+}
+
+/** Emits `name` and resolves with the server's acknowledgement, or a timeout/offline refusal. */
+function emitWithAck(socket: Socket | null, name: string, payload: unknown): Promise<OpsAck> {
+  if (!socket || !socket.connected) return Promise.resolve(refusal("offline:ops", "The live feed is not connected; the command was not sent."));
+  return new Promise((resolve) => {
+    socket.timeout(COMMAND_TIMEOUT_MS).emit(name, payload, (err: Error | null, ack: OpsAck | undefined) => {
+      if (err) resolve(refusal("timeout:ops", "The server did not answer in time; check the robot before trying again."));
+      else if (!ack || typeof ack !== "object" || !("ok" in ack)) resolve(refusal("bad_response:ops", "The server sent an answer the page cannot read."));
+      else resolve(ack);
+    });
+  });
+}
+
+/** Connects to /ops for the store's floorplan while mounted; returns the command sender. */
+export function useOpsSocket(store: FloorStore): SendCommand {
+  const socketRef = useRef<Socket | null>(null);
+
+  useEffect(() => {
+    const floorplanId = store.getState().floorplan.id;
+    const socket = io("/ops", { transports: ["websocket"], withCredentials: true });
+    socketRef.current = socket;
+    const s = () => store.getState();
+
+    const watch = () => {
+      void emitWithAck(socket, "watch", { floorplanId }).then((ack) => {
+        if (ack.ok) {
+          s().setConnection("live");
+          if (looksLikeSnapshot(ack.data)) s().applySnapshot(ack.data);
+        } else {
+          s().setConnection("refused", ack.error.message);
+        }
+      });
+    };
+
+    socket.on("connect", watch);
+    socket.on("disconnect", (reason) => {
+      s().setConnection(reason === "io server disconnect" ? "refused" : "reconnecting", reason === "io server disconnect" ? "The server closed the live feed." : null);
+      if (reason === "io server disconnect") socket.connect();
+    });
+    socket.on("connect_error", (err: Error & { data?: { code?: string } }) => {
+      const code = err.data?.code;
+      s().setConnection(code ? "refused" : "reconnecting", code ? `The live feed refused this session (${code}). Sign in again if it persists.` : null);
+    });
+    socket.on(OPS_EVENTS.robot, (raw: unknown) => {
+      const parsed = RobotFrameSchema.safeParse(raw);
+      if (parsed.success) s().upsertRobot(parsed.data);
+    });
+    socket.on(OPS_EVENTS.belief, (raw: { robotId?: unknown; rows?: unknown; cols?: unknown; scale?: unknown; data?: unknown }) => {
+      if (typeof raw?.robotId !== "string" || typeof raw.rows !== "number" || typeof raw.cols !== "number" || typeof raw.scale !== "number") return;
+      const { floorplan, robots } = s();
+      if (!robots[raw.robotId]) return;
+      const view = beliefFromWire({ robotId: raw.robotId, rows: raw.rows, cols: raw.cols, scale: raw.scale, data: raw.data }, floorplan.rows, floorplan.cols);
+      if (view) s().putBelief(view);
+    });
+    socket.on(OPS_EVENTS.alert, (raw: unknown) => {
+      const parsed = AlertFrameSchema.safeParse(raw);
+      if (parsed.success) s().upsertAlert(parsed.data);
+    });
+    socket.on(OPS_EVENTS.removed, (raw: { robotId?: unknown }) => {
+      if (typeof raw?.robotId === "string") s().removeRobot(raw.robotId);
+    });
+    socket.io.on("reconnect_attempt", () => s().setConnection("reconnecting"));
+
+    return () => {
+      socket.removeAllListeners();
+      socket.io.removeAllListeners();
+      socket.disconnect();
+      socketRef.current = null;
+    };
+  }, [store]);
+
+  return useCallback<SendCommand>((name, payload) => emitWithAck(socketRef.current, name, payload), []);
+}
