@@ -23,7 +23,7 @@ import { actionIndex } from "../motion/update";
 import type { SensorModel, SensorReading, SensorSpec } from "../sensing/model";
 import type { RangeTable } from "../sensing/ray-cast";
 import { buildRangeTable } from "../sensing/ray-cast";
-import type { SenseOutcome } from "../sensing/update";
+import type { ReadingFactor, SenseOutcome } from "../sensing/update";
 import { applyFactors, correctInto, markClasses, readingFactors } from "../sensing/update";
 import type { Action } from "../vocabulary";
 import type { Certainty } from "./belief";
@@ -141,30 +141,73 @@ function identityPull(plan: Floorplan, states: number): PullTable {
 }
 
 /**
- * out[t] = (floor[p] + scale · Σ_k prob[3p+k] · prior[t + delta[3p+k]]) · f0[b0[t]] · f1[b1[t]] · f2[b2[t]] · extra[t]
- * with p = code[t]; returns Σ out. `scale` is 1 / (mass of prior). Unused factor slots hold [1] and all-zero bins.
+ * The joint bin of the first JOINT range sensors: key[t] is the rank of the tuple of their bins at state t, and
+ * parts[JOINT·u + j] is sensor j's bin in tuple u. A message's likelihood for those sensors is then one table
+ * over the (few thousand) distinct tuples, and the per-state pass does one look-up instead of one per sensor.
  */
-function pullAndCorrect(
-  pull: PullTable,
-  prior: Float64Array,
-  scale: number,
-  out: Float64Array,
-  f0: Float64Array,
-  b0: Uint16Array,
-  f1: Float64Array,
-  b1: Uint16Array,
-  f2: Float64Array,
-  b2: Uint16Array,
-  extra: Float64Array,
-): number {
-  const { code, delta, prob, floor } = pull;
+interface JointBins {
+  sensors: number;
+  key: Uint32Array;
+  parts: Uint16Array;
+  count: number;
+}
+const JOINT = 3;
+
+function buildJointBins(ranges: RangeTable): JointBins {
+  const sensors = Math.min(JOINT, ranges.sensors.length);
+  const key = new Uint32Array(ranges.states);
+  const ids = new Map<number, number>();
+  const parts: number[] = [];
+  for (let t = 0; t < ranges.states; t++) {
+    let code = 0;
+    for (let j = 0; j < sensors; j++) code = code * 65536 + ranges.bin[j][t];
+    let id = ids.get(code);
+    if (id === undefined) {
+      id = ids.size;
+      ids.set(code, id);
+      for (let j = 0; j < JOINT; j++) parts.push(j < sensors ? ranges.bin[j][t] : 0);
+    }
+    key[t] = id;
+  }
+  return { sensors, key, parts: Uint16Array.from(parts), count: ids.size };
+}
+
+/** out[t] = floor[p] + scale · Σ_k prob[3p+k] · prior[t + delta[3p+k]] with p = code[t] (prediction only); returns Σ out. */
+function pull(table: PullTable, prior: Float64Array, scale: number, out: Float64Array): number {
+  const { code, delta, prob, floor } = table;
   const states = out.length;
   let sum = 0;
   for (let t = 0; t < states; t++) {
     const p = code[t];
     const j = p * 3;
-    const pulled = prob[j] * prior[t + delta[j]] + prob[j + 1] * prior[t + delta[j + 1]] + prob[j + 2] * prior[t + delta[j + 2]];
-    const v = (floor[p] + scale * pulled) * f0[b0[t]] * f1[b1[t]] * f2[b2[t]] * extra[t];
+    const v = floor[p] + scale * (prob[j] * prior[t + delta[j]] + prob[j + 1] * prior[t + delta[j + 1]] + prob[j + 2] * prior[t + delta[j + 2]]);
+    out[t] = v;
+    sum += v;
+  }
+  return sum;
+}
+
+/** As pull, times joint[key[t]] (and extra[t] when given): prediction and correction in one pass. */
+function pullAndCorrect(table: PullTable, prior: Float64Array, scale: number, out: Float64Array, joint: Float64Array, key: Uint32Array, extra: Float64Array | null): number {
+  const { code, delta, prob, floor } = table;
+  const states = out.length;
+  let sum = 0;
+  if (extra === null) {
+    for (let t = 0; t < states; t++) {
+      const p = code[t];
+      const j = p * 3;
+      const moved = floor[p] + scale * (prob[j] * prior[t + delta[j]] + prob[j + 1] * prior[t + delta[j + 1]] + prob[j + 2] * prior[t + delta[j + 2]]);
+      const v = moved * joint[key[t]];
+      out[t] = v;
+      sum += v;
+    }
+    return sum;
+  }
+  for (let t = 0; t < states; t++) {
+    const p = code[t];
+    const j = p * 3;
+    const moved = floor[p] + scale * (prob[j] * prior[t + delta[j]] + prob[j + 1] * prior[t + delta[j + 1]] + prob[j + 2] * prior[t + delta[j + 2]]);
+    const v = moved * joint[key[t]] * extra[t];
     out[t] = v;
     sum += v;
   }
@@ -182,9 +225,8 @@ export function createFilter(plan: Floorplan, model: MotionModel, sensors: reado
   const pulls = buildPullTables(plan, table, model.mix, model.mix / freeStates);
   const identity = identityPull(plan, states);
   const classes = markClasses(plan);
-  const one = Float64Array.of(1);
-  const zeroBins = new Uint16Array(states);
-  const ones = new Float64Array(states).fill(1);
+  const joint = buildJointBins(ranges);
+  const jointL = new Float64Array(joint.count);
   const extra = new Float64Array(states);
   const scratch = new Float64Array(states);
   let current: Float64Array = uniformBelief(plan);
@@ -200,26 +242,42 @@ export function createFilter(plan: Floorplan, model: MotionModel, sensors: reado
     mass = 1;
   };
 
-  const update = (pull: PullTable, readings: readonly SensorReading[] | null): SenseOutcome => {
-    const { factors, ignored } = readings === null ? { factors: [], ignored: [] } : readingFactors(plan, readings, sensors, sensorModel, ranges, classes);
-    const ranged = factors.filter((f) => f.bin !== undefined).slice(0, 3);
-    const rest = factors.filter((f) => !ranged.includes(f));
-    let extraL = ones;
-    if (rest.length > 0) {
-      extra.fill(1);
-      applyFactors(plan, rest, extra);
-      extraL = extra;
+  /** Folds one reading per joint sensor into jointL; returns the factors left over (floor, further or repeated sensors). */
+  const foldJoint = (factors: readonly ReadingFactor[]): ReadingFactor[] => {
+    const slots: (Float64Array | null)[] = [null, null, null];
+    const rest: ReadingFactor[] = [];
+    for (const f of factors) {
+      const j = f.bin === undefined ? -1 : ranges.bin.indexOf(f.bin);
+      if (j >= 0 && j < joint.sensors && slots[j] === null) slots[j] = f.factor;
+      else rest.push(f);
     }
-    const slot = (k: number): [Float64Array, Uint16Array] => (k < ranged.length ? [ranged[k].factor, ranged[k].bin as Uint16Array] : [one, zeroBins]);
-    const [f0, b0] = slot(0);
-    const [f1, b1] = slot(1);
-    const [f2, b2] = slot(2);
-    const sum = pullAndCorrect(pull, current, 1 / mass, spare, f0, b0, f1, b1, f2, b2, extraL);
+    const [f0, f1, f2] = slots;
+    const parts = joint.parts;
+    for (let u = 0; u < joint.count; u++) {
+      const k = u * JOINT;
+      jointL[u] = (f0 === null ? 1 : f0[parts[k]]) * (f1 === null ? 1 : f1[parts[k + 1]]) * (f2 === null ? 1 : f2[parts[k + 2]]);
+    }
+    return rest;
+  };
+
+  const update = (table: PullTable, readings: readonly SensorReading[] | null): SenseOutcome => {
+    const { factors, ignored } = readings === null ? { factors: [], ignored: [] } : readingFactors(plan, readings, sensors, sensorModel, ranges, classes);
+    let sum: number;
+    if (factors.length === 0) {
+      sum = pull(table, current, 1 / mass, spare);
+    } else {
+      const rest = foldJoint(factors);
+      if (rest.length > 0) {
+        extra.fill(1);
+        applyFactors(plan, rest, extra);
+      }
+      sum = pullAndCorrect(table, current, 1 / mass, spare, jointL, joint.key, rest.length > 0 ? extra : null);
+    }
     let fellBack = false;
     if (sum > MIN_MASS && Number.isFinite(sum)) {
       mass = sum;
     } else {
-      pullAndCorrect(pull, current, 1 / mass, scratch, one, zeroBins, one, zeroBins, one, zeroBins, ones);
+      pull(table, current, 1 / mass, scratch);
       fellBack = correctInto(plan, scratch, factors, spare, fallbackMix);
       mass = 1;
     }
