@@ -1,0 +1,4 @@
+export * from "./solve-mdp";
+export * from "./shortest-turns";
+export * from "./plan-policy";
+export * from "./choose-action";
