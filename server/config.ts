@@ -13,7 +13,6 @@ const ConfigSchema = z.object({
   NEXTAUTH_URL: z.string().url().optional(),
   LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info"),
   DEMO_PASSWORD: z.string().min(8).default("demo-tessera"),
-  HEARTBEAT_TIMEOUT_MS: z.coerce.number().int().min(500).default(3000),
 });
 
 export type Config = z.infer<typeof ConfigSchema>;
@@ -43,4 +42,76 @@ export function runtimeEnv(): z.infer<typeof RuntimeSchema> {
 export function publicUrl(): string {
   const c = config();
   return c.NEXTAUTH_URL ?? `http://${c.HOST}:${c.PORT}`;
+}
+
+const FleetConfigSchema = z.object({
+  /** Robot silence after which it is offline and its mission held, ms. */
+  heartbeatTimeoutMs: z.coerce.number().int().min(500).default(3000),
+  /** Certainty (mass on the most likely tile) under which a robot counts as unsure. */
+  holdBelow: z.coerce.number().min(0).max(1).default(0.3),
+  /** Consecutive unsure steps before an automatic hold. */
+  holdAfterSteps: z.coerce.number().int().min(1).default(3),
+  /** Certainty needed to end an automatic hold; above holdBelow (hysteresis). */
+  releaseAbove: z.coerce.number().min(0).max(1).default(0.55),
+  /** Belief mass on the goal tile that counts as arrival. */
+  arriveMass: z.coerce.number().min(0).max(1).default(0.8),
+  /** Tile mass at which another robot is taken to stand on its most likely tile. */
+  trafficMass: z.coerce.number().min(0).max(1).default(0.4),
+  /** A traffic wait this long re-plans around the blocking robot, ms. */
+  trafficReplanMs: z.coerce.number().int().min(0).default(6000),
+  /** Steps after which a mission that has not arrived fails. */
+  maxMissionSteps: z.coerce.number().int().min(1).default(400),
+  /** Fused steps between belief snapshots. */
+  snapshotEvery: z.coerce.number().int().min(1).default(20),
+  /** Longest wait before a batch of writes is committed, ms. */
+  writeTickMs: z.coerce.number().int().min(1).default(15),
+  /** Belief frames per second per robot to dashboards, at most. */
+  beliefFrameHz: z.coerce.number().min(0.1).max(30).default(4),
+  /** Plans with more tiles than this solve their policy in a worker thread. */
+  workerTiles: z.coerce.number().int().min(0).default(2500),
+  /** Refused messages within errorWindowMs that end a robot's connection (PROTOCOL.md: 20 in 10 s). */
+  maxErrors: z.coerce.number().int().min(1).default(20),
+  errorWindowMs: z.coerce.number().int().min(100).default(10_000),
+  /** Replace an old connection when a robot connects twice (PROTOCOL.md default); false refuses the new one. */
+  replaceConnections: z
+    .enum(["true", "false"])
+    .default("true")
+    .transform((v) => v === "true"),
+});
+
+export type FleetConfig = z.infer<typeof FleetConfigSchema>;
+
+const FLEET_ENV: Record<keyof FleetConfig, string> = {
+  heartbeatTimeoutMs: "HEARTBEAT_TIMEOUT_MS",
+  holdBelow: "FLEET_HOLD_BELOW",
+  holdAfterSteps: "FLEET_HOLD_AFTER_STEPS",
+  releaseAbove: "FLEET_RELEASE_ABOVE",
+  arriveMass: "FLEET_ARRIVE_MASS",
+  trafficMass: "FLEET_TRAFFIC_MASS",
+  trafficReplanMs: "FLEET_TRAFFIC_REPLAN_MS",
+  maxMissionSteps: "FLEET_MAX_MISSION_STEPS",
+  snapshotEvery: "FLEET_SNAPSHOT_EVERY",
+  writeTickMs: "FLEET_WRITE_TICK_MS",
+  beliefFrameHz: "FLEET_BELIEF_FRAME_HZ",
+  workerTiles: "FLEET_WORKER_TILES",
+  maxErrors: "FLEET_MAX_ERRORS",
+  errorWindowMs: "FLEET_ERROR_WINDOW_MS",
+  replaceConnections: "FLEET_REPLACE_CONNECTIONS",
+};
+
+/** Fleet thresholds and timings: defaults, each overridable by its environment variable. */
+export function fleetConfig(overrides: Partial<FleetConfig> = {}): FleetConfig {
+  const raw: Record<string, unknown> = {};
+  for (const [key, name] of Object.entries(FLEET_ENV)) if (process.env[name] !== undefined) raw[key] = process.env[name];
+  const parsed = FleetConfigSchema.safeParse(raw);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((issue) => `  ${FLEET_ENV[issue.path[0] as keyof FleetConfig]}: ${issue.message}`);
+    throw new Error(`Tessera cannot start; fix these fleet settings:\n${lines.join("\n")}`);
+  }
+  return { ...parsed.data, ...overrides };
+}
+
+/** Whether the demo scheduler sends idle simulated robots on errands (on unless TESSERA_DEMO_ERRANDS=off). */
+export function demoErrandsEnabled(): boolean {
+  return process.env.TESSERA_DEMO_ERRANDS !== "off";
 }

@@ -6,3 +6,8 @@ export { route, errorResponse } from "./http/route";
 export { TesseraError } from "./errors";
 export { healthReport } from "./health";
 export { currentUser, requirePageRole } from "./auth/page-guard";
+export { liveFloorSnapshot, floorplanView } from "./live-floor";
+export { registerRobot, RegisterRobotSchema } from "./robots-api";
+export { runningFleet } from "./registry";
+export { runCommand, actorOf } from "./ops-feed/commands";
+export { missionDetail } from "./missions-api";

@@ -2,15 +2,16 @@ import { createServer } from "node:http";
 import next from "next";
 import { Server } from "socket.io";
 import { closeDb } from "../db/client";
-import { config } from "./config";
+import { config, fleetConfig } from "./config";
+import { Fleet } from "./fleet/fleet";
 import { appDb } from "./db";
 import { logger } from "./logger";
 import { attachOpsFeed } from "./ops-feed";
 import { registry } from "./registry";
 import { attachRobotLink } from "./robot-link";
 
-/** Messages over this size are refused by socket.io itself before any parsing. */
-const MAX_MESSAGE_BYTES = 64 * 1024;
+/** Frames over this size are dropped by socket.io itself before any parsing; the link's own limit is lower. */
+const MAX_FRAME_BYTES = 64 * 1024;
 
 export async function startTessera(): Promise<void> {
   const c = config();
@@ -27,11 +28,14 @@ export async function startTessera(): Promise<void> {
     });
   });
 
-  const io = new Server(http, { path: "/socket.io", maxHttpBufferSize: MAX_MESSAGE_BYTES, serveClient: false });
+  const io = new Server(http, { path: "/socket.io", maxHttpBufferSize: MAX_FRAME_BYTES, serveClient: false });
   registry().io = io;
   const db = appDb();
-  attachRobotLink(io, db);
-  attachOpsFeed(io);
+  const fleet = new Fleet(db, fleetConfig());
+  await fleet.start();
+  registry().fleet = fleet;
+  attachRobotLink(io, db, fleet);
+  attachOpsFeed(io, fleet);
 
   await new Promise<void>((resolve) => http.listen(c.PORT, c.HOST, resolve));
   logger.info({ url: `http://${c.HOST}:${c.PORT}`, mode: dev ? "development" : "production" }, "Tessera is listening");
@@ -47,6 +51,7 @@ export async function startTessera(): Promise<void> {
       io.close(() => resolve());
       http.closeAllConnections?.();
     });
+    await fleet.stop();
     await closeDb();
     logger.info("stopped");
     process.exit(0);

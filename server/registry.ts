@@ -3,13 +3,22 @@
  * bundles route handlers apart from the custom server and module singletons differ.
  */
 import type { Server } from "socket.io";
+import type { Fleet } from "./fleet/fleet";
 
 interface Registry {
   io?: Server;
+  fleet?: Fleet;
 }
 
 const holder = globalThis as unknown as { __tesseraRegistry?: Registry };
 
 export function registry(): Registry {
   return (holder.__tesseraRegistry ??= {});
+}
+
+/** The running fleet service; route handlers fail clearly when the custom server is not running. */
+export function runningFleet(): Fleet {
+  const fleet = registry().fleet;
+  if (!fleet) throw new Error("the fleet service is not running in this process (start Tessera through server/index.ts)");
+  return fleet;
 }

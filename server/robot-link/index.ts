@@ -1,10 +1,12 @@
-/** The /robot namespace: robots sign in with their key; the message traffic is the fleet service's. */
+/** The /robot namespace of PROTOCOL.md: sign-in, then every event handed to the fleet service. */
 import type { Server } from "socket.io";
 import type { Db } from "../../db/client";
+import { ROBOT_EVENT_NAMES } from "../../lib/protocol";
+import type { Fleet } from "../fleet/fleet";
 import { logger } from "../logger";
 import { checkRobotHandshake, handshakeError, type RobotSocket } from "./handshake";
 
-export function attachRobotLink(io: Server, db: Db): void {
+export function attachRobotLink(io: Server, db: Db, fleet?: Fleet): void {
   const nsp = io.of("/robot");
   nsp.use(async (socket, next) => {
     try {
@@ -12,6 +14,10 @@ export function attachRobotLink(io: Server, db: Db): void {
       if (!result.ok) {
         logger.info({ code: result.code, address: socket.handshake.address }, "robot handshake refused");
         next(handshakeError(result.code));
+        return;
+      }
+      if (fleet && !fleet.config.replaceConnections && fleet.isConnected(result.robot.id)) {
+        next(handshakeError("already_connected"));
         return;
       }
       (socket as RobotSocket).data.robot = result.robot;
@@ -23,7 +29,24 @@ export function attachRobotLink(io: Server, db: Db): void {
   });
   nsp.on("connection", (socket) => {
     const robot = (socket as RobotSocket).data.robot;
-    logger.info({ robot: robot?.id }, "robot connected");
-    socket.on("disconnect", (reason) => logger.info({ robot: robot?.id, reason }, "robot disconnected"));
+    if (!robot) return;
+    logger.info({ robot: robot.id }, "robot connected");
+    if (!fleet) return;
+    fleet.attach(robot.id, socket);
+    for (const name of ROBOT_EVENT_NAMES) {
+      socket.on(name, (payload: unknown, ack?: unknown) => {
+        if (typeof ack !== "function") return;
+        fleet.receive(robot.id, name, payload, ack as (a: unknown) => void);
+      });
+    }
+    socket.onAny((event: string, ...args: unknown[]) => {
+      if ((ROBOT_EVENT_NAMES as string[]).includes(event)) return;
+      const ack = args[args.length - 1];
+      if (typeof ack === "function") fleet.receive(robot.id, event, args[0], ack as (a: unknown) => void);
+    });
+    socket.on("disconnect", (reason) => {
+      fleet.detach(robot.id, socket);
+      logger.info({ robot: robot.id, reason }, "robot disconnected");
+    });
   });
 }

@@ -1,0 +1,697 @@
+/**
+ * The fleet service: every robot's belief, link state, mission, holds and traffic, in
+ * memory; every message and command stored through the batched writer; frames for the
+ * dashboards as events. One instance per process, owning the robots connected to it.
+ */
+import { EventEmitter } from "node:events";
+import { and, desc, eq, gt, inArray, isNull, max } from "drizzle-orm";
+import type { Socket } from "socket.io";
+import type { Db } from "../../db/client";
+import { planFromVersion, defaultFloorplanId, latestVersion, versionById } from "../../db/queries/floorplans";
+import { alerts, audit, beliefs, events, missions, robots, type Robot } from "../../db/schema";
+import { poseBelief, tileMarginal } from "../../lib/belief";
+import { isFreeTile, stateIndex, type Floorplan, type Tile } from "../../lib/floorplan";
+import { chooseAction } from "../../lib/planning";
+import {
+  MAX_MESSAGE_BYTES,
+  ROBOT_EVENTS,
+  type Ack,
+  type Beat,
+  type Hello,
+  type Moved,
+  type RobotEventName,
+  type Sensed,
+  type Truth,
+  type RobotFrame,
+  type ServerMessage,
+} from "../../lib/protocol";
+import type { SensorReading, SensorSpec } from "../../lib/sensing";
+import { ACTIONS, HEADINGS, type AckCode, type AlertKind, type Heading, type HoldReason, type MissionOutcome, type RobotState } from "../../lib/vocabulary";
+import type { FleetConfig } from "../config";
+import { TesseraError } from "../errors";
+import { logger } from "../logger";
+import { PolicyCache } from "./policy-cache";
+import { likelyTile, routePreview } from "./route-preview";
+import { RobotRuntime, type MissionRuntime, type RobotSettings } from "./robot-runtime";
+import { FleetWriter } from "./writer";
+
+/** Who asked for a command: a signed-in user, or the server itself (demo scheduler). */
+export interface Actor {
+  userId: number | null;
+  label: string;
+}
+
+type AckFn = (ack: Ack) => void;
+
+function refuse(seq: number | null, code: AckCode, message: string): Ack {
+  return { ok: false, seq, code, message };
+}
+
+function describeIssue(issue: { path: PropertyKey[]; message: string }): string {
+  const where = issue.path.length ? issue.path.map(String).join(".") : "message";
+  return `${where}: ${issue.message}`;
+}
+
+export interface FleetEvents {
+  robot: [RobotFrame];
+  belief: [{ robotId: string; floorplanId: number | null; rows: number; cols: number; marginal: Float32Array }];
+  alert: [{ id: number; robotId: string | null; kind: AlertKind; message: string; createdAt: number; floorplanId: number | null }];
+}
+
+export class Fleet extends EventEmitter<FleetEvents> {
+  readonly robots = new Map<string, RobotRuntime>();
+  readonly writer: FleetWriter;
+  readonly policies: PolicyCache;
+  private readonly plans = new Map<number, Floorplan>();
+  private watchdog: NodeJS.Timeout | undefined;
+
+  constructor(
+    readonly db: Db,
+    readonly config: FleetConfig,
+  ) {
+    super();
+    this.writer = new FleetWriter(db, config.writeTickMs);
+    this.policies = new PolicyCache(db, config.workerTiles);
+  }
+
+  /** Loads every robot of the roster and rebuilds its belief and mission from the database. */
+  async start(): Promise<void> {
+    const rows = await this.db.select().from(robots).where(isNull(robots.retiredAt));
+    for (const row of rows) await this.load(row);
+    this.watchdog = setInterval(() => this.tick(), 250);
+    this.watchdog.unref();
+    logger.info({ robots: this.robots.size }, "fleet service started");
+  }
+
+  async stop(): Promise<void> {
+    if (this.watchdog) clearInterval(this.watchdog);
+    await Promise.all([...this.robots.values()].map((r) => r.chain));
+    await this.writer.flush();
+  }
+
+  private async planOf(versionId: number): Promise<Floorplan> {
+    const cached = this.plans.get(versionId);
+    if (cached) return cached;
+    const row = await versionById(this.db, versionId);
+    if (!row) throw new Error(`floorplan version ${versionId} does not exist`);
+    const plan = planFromVersion(row);
+    this.plans.set(versionId, plan);
+    return plan;
+  }
+
+  /** Creates (or re-creates) a robot's runtime from its row, snapshot and later events. */
+  async load(row: Robot): Promise<RobotRuntime> {
+    const floorplanId = row.floorplanId ?? (await defaultFloorplanId(this.db)) ?? null;
+    if (floorplanId === null) throw new Error(`robot ${row.id} has no floorplan and there is no default one`);
+    const active = (await this.db.select().from(missions).where(and(eq(missions.robotId, row.id), eq(missions.state, "active"))).limit(1))[0];
+    const snapshot = (await this.db.select().from(beliefs).where(eq(beliefs.robotId, row.id)).orderBy(desc(beliefs.eventId)).limit(1))[0];
+    const versionId = active?.versionId ?? snapshot?.versionId ?? (await latestVersion(this.db, floorplanId))?.id;
+    if (versionId === undefined) throw new Error(`floorplan ${floorplanId} has no version`);
+    const plan = await this.planOf(versionId);
+    const settings = (row.settings ?? {}) as RobotSettings;
+    const runtime = new RobotRuntime(row.id, row.name, row.simulated, row.drive, floorplanId, versionId, plan, row.sensors as SensorSpec[], settings);
+    const usable = snapshot && snapshot.versionId === versionId;
+    if (usable) {
+      runtime.filter.reset(new Float64Array(snapshot.belief.buffer.slice(snapshot.belief.byteOffset, snapshot.belief.byteOffset + snapshot.belief.byteLength)));
+      runtime.lastFilterEvent = snapshot.eventId;
+    }
+    const after = usable ? snapshot.eventId : 0;
+    const later = await this.db
+      .select()
+      .from(events)
+      .where(and(eq(events.robotId, row.id), gt(events.id, after), inArray(events.kind, ["moved", "sensed", "relocate"])))
+      .orderBy(events.id);
+    for (const e of later) {
+      applyToFilter(runtime, e.kind, e.payload as Record<string, unknown>);
+      runtime.lastFilterEvent = e.id;
+    }
+    const [{ last }] = await this.db.select({ last: max(events.seq) }).from(events).where(eq(events.robotId, row.id));
+    runtime.lastSeq = Number(last ?? 0);
+    if (active) {
+      const policy = await this.policies.get({ versionId, plan, goal: { row: active.goalRow, col: active.goalCol }, model: runtime.motion });
+      runtime.mission = newMission(active.id, { row: active.goalRow, col: active.goalCol }, versionId, policy, active.steps, active.holds);
+    }
+    if (!usable) {
+      runtime.sinceSnapshot = this.config.snapshotEvery;
+    }
+    this.robots.set(row.id, runtime);
+    return runtime;
+  }
+
+  private runtime(robotId: string): RobotRuntime {
+    const runtime = this.robots.get(robotId);
+    if (!runtime) throw new TesseraError("not_found", "robot", `There is no active robot ${robotId}.`);
+    return runtime;
+  }
+
+  /** Adds a robot registered while the server runs. */
+  async register(row: Robot): Promise<void> {
+    const runtime = await this.load(row);
+    this.publish(runtime);
+  }
+
+  // ——— the robot link ———
+
+  attach(robotId: string, socket: Socket): void {
+    const runtime = this.runtime(robotId);
+    const old = runtime.socket;
+    if (old && old.id !== socket.id && old.connected) {
+      old.emit("replaced", {});
+      old.disconnect(true);
+    }
+    runtime.socket = socket;
+  }
+
+  isConnected(robotId: string): boolean {
+    return Boolean(this.robots.get(robotId)?.socket?.connected);
+  }
+
+  detach(robotId: string, socket: Socket): void {
+    const runtime = this.robots.get(robotId);
+    if (runtime && runtime.socket?.id === socket.id) runtime.socket = null;
+  }
+
+  /** Handles one robot → server event; answers through `ack` only after the event is stored. */
+  receive(robotId: string, event: string, raw: unknown, ack: AckFn): void {
+    const runtime = this.robots.get(robotId);
+    if (!runtime) {
+      ack(refuse(null, "internal", `robot ${robotId} is not loaded`));
+      return;
+    }
+    runtime.chain = runtime.chain
+      .then(() => this.apply(runtime, event, raw))
+      .then(ack, (err: unknown) => {
+        logger.error({ err, robot: robotId, event }, "robot message failed");
+        ack(refuse(seqOf(raw), "internal", "The server could not store this message; send it again."));
+      });
+  }
+
+  /** Counts a refusal; true when the robot has now exceeded the too-many-errors rule. */
+  private countError(runtime: RobotRuntime): boolean {
+    const now = Date.now();
+    runtime.errors = runtime.errors.filter((t) => now - t < this.config.errorWindowMs);
+    runtime.errors.push(now);
+    return runtime.errors.length >= this.config.maxErrors;
+  }
+
+  private refused(runtime: RobotRuntime, ack: Ack): Ack {
+    if (this.countError(runtime) && runtime.socket) {
+      const socket = runtime.socket;
+      logger.warn({ robot: runtime.id }, "too many refused messages; closing the link");
+      socket.emit("too_many_errors", { reason: "too_many_errors" });
+      setTimeout(() => socket.disconnect(true), 10);
+    }
+    return ack;
+  }
+
+  private async apply(runtime: RobotRuntime, event: string, raw: unknown): Promise<Ack> {
+    const seq = seqOf(raw);
+    let size: number;
+    try {
+      size = Buffer.byteLength(JSON.stringify(raw ?? null));
+    } catch {
+      return this.refused(runtime, refuse(seq, "bad_message", "message: not serialisable JSON"));
+    }
+    if (size > MAX_MESSAGE_BYTES) return this.refused(runtime, refuse(seq, "too_large", `message is ${size} bytes; the limit is ${MAX_MESSAGE_BYTES}`));
+    if (!(event in ROBOT_EVENTS)) return this.refused(runtime, refuse(seq, "bad_message", `event: unknown event "${event}"`));
+    const name = event as RobotEventName;
+    const parsed = ROBOT_EVENTS[name].safeParse(raw);
+    if (!parsed.success) return this.refused(runtime, refuse(seq, "bad_message", describeIssue(parsed.error.issues[0])));
+    const msg = parsed.data;
+    runtime.lastMessageAt = Date.now();
+
+    if (msg.seq <= runtime.lastSeq) {
+      const seen = await this.db
+        .select({ id: events.id })
+        .from(events)
+        .where(and(eq(events.robotId, runtime.id), eq(events.seq, msg.seq)))
+        .limit(1);
+      if (name === "hello") {
+        this.comeOnline(runtime);
+        const state = { lastSeq: runtime.lastSeq, state: this.stateOf(runtime), mission: this.missionRef(runtime) };
+        if (seen.length) return { ok: true, seq: msg.seq, dup: true, ...state };
+        return { ...refuse(msg.seq, "out_of_order", `seq ${msg.seq} is below the last applied seq ${runtime.lastSeq}; continue from ${runtime.lastSeq + 1}`), lastSeq: runtime.lastSeq, state: state.state };
+      }
+      if (seen.length) return { ok: true, seq: msg.seq, dup: true };
+      return this.refused(runtime, refuse(msg.seq, "out_of_order", `seq ${msg.seq} was never applied and is below the last applied seq ${runtime.lastSeq}`));
+    }
+
+    if (name === "truth" && !runtime.simulated) return this.refused(runtime, refuse(msg.seq, "bad_message", "truth: accepted only from simulated robots"));
+    if (name === "moved" && !runtime.mission) return this.refused(runtime, refuse(msg.seq, "no_mission", "moved: the robot has no active mission"));
+
+    const payload = { ...(msg as Record<string, unknown>) };
+    delete payload.seq;
+    delete payload.at;
+    const queued = this.writer.event({
+      robotId: runtime.id,
+      seq: msg.seq,
+      missionId: runtime.mission?.id ?? null,
+      source: "robot",
+      kind: name,
+      payload,
+      robotAt: msg.at,
+      receivedAt: new Date(),
+    });
+    runtime.lastSeq = msg.seq;
+    const after: (() => void)[] = [];
+
+    switch (name) {
+      case "hello": {
+        const hello = msg as Hello;
+        runtime.drive = hello.drive;
+        if (JSON.stringify(hello.sensors) !== JSON.stringify(runtime.sensors)) {
+          runtime.setSensors(hello.sensors);
+          void this.db.update(robots).set({ sensors: hello.sensors }).where(eq(robots.id, runtime.id));
+        }
+        this.comeOnline(runtime);
+        break;
+      }
+      case "beat": {
+        const beat = msg as Beat;
+        runtime.battery = beat.battery;
+        const wasFault = runtime.fault;
+        runtime.fault = beat.status === "fault" ? (beat.fault ?? "fault") : null;
+        if (runtime.fault && !wasFault) after.push(() => this.placeHold(runtime, "fault", `reports a fault: ${runtime.fault}`));
+        if (!runtime.fault && wasFault && runtime.hold === "fault") after.push(() => this.lift(runtime, { userId: null, label: "robot" }));
+        if (!runtime.online) this.comeOnline(runtime);
+        break;
+      }
+      case "moved": {
+        const moved = msg as Moved;
+        runtime.filter.motion(moved.action);
+        runtime.lastFilterEvent = queued;
+        if (runtime.mission) runtime.mission.awaiting = "sensed";
+        break;
+      }
+      case "sensed": {
+        const sensed = msg as Sensed;
+        const outcome = runtime.filter.sense(sensed.readings as SensorReading[]);
+        if (outcome.fellBack) logger.info({ robot: runtime.id, seq: msg.seq }, "no state explains these readings; fell back to the mixing floor");
+        runtime.lastFilterEvent = queued;
+        runtime.sinceSnapshot += 1;
+        const c = runtime.certainty();
+        runtime.recordCertainty(c.tileMass);
+        if (runtime.mission) {
+          runtime.mission.claim = null;
+          runtime.mission.minCertainty = Math.min(runtime.mission.minCertainty, c.tileMass);
+          this.writer.mission(runtime.mission.id, { minCertainty: c.tileMass });
+          const step = runtime.mission.awaiting === "sensed";
+          runtime.mission.awaiting = null;
+          after.push(() => void this.advance(runtime, step));
+        }
+        if (runtime.sinceSnapshot >= this.config.snapshotEvery) this.snapshot(runtime);
+        after.push(() => this.publishBelief(runtime));
+        break;
+      }
+      case "truth": {
+        const truth = msg as Truth;
+        runtime.lastTruth = { row: truth.row, col: truth.col, heading: truth.heading };
+        break;
+      }
+    }
+
+    await this.writer.commit();
+    for (const fn of after) fn();
+    this.publish(runtime);
+    if (name === "hello") {
+      runtime.resumeAt = Date.now() + 300;
+      return { ok: true, seq: msg.seq, lastSeq: runtime.lastSeq, state: this.stateOf(runtime), mission: this.missionRef(runtime) };
+    }
+    return { ok: true, seq: msg.seq };
+  }
+
+  private comeOnline(runtime: RobotRuntime): void {
+    runtime.online = true;
+    runtime.lastMessageAt = Date.now();
+    if (runtime.hold === "offline") {
+      runtime.hold = null;
+      this.logCommand(runtime, "server", "release", { reason: "back online" });
+      if (runtime.socket) runtime.socket.emit("release", runtime.mission ? { mission: runtime.mission.id } : {});
+    }
+  }
+
+  private snapshot(runtime: RobotRuntime): void {
+    const c = runtime.certainty();
+    this.writer.snapshot({
+      robotId: runtime.id,
+      after: runtime.lastFilterEvent,
+      missionId: runtime.mission?.id ?? null,
+      versionId: runtime.versionId,
+      belief: runtime.filter.belief,
+      tileMass: c.tileMass,
+      entropy: c.entropy,
+    });
+    runtime.sinceSnapshot = 0;
+  }
+
+  /** Emits a server → robot command and logs it in the events table. */
+  private command<K extends keyof ServerMessage>(runtime: RobotRuntime, name: K, payload: ServerMessage[K]): void {
+    this.logCommand(runtime, "server", name, payload as Record<string, unknown>);
+    runtime.socket?.emit(name, payload);
+  }
+
+  private logCommand(runtime: RobotRuntime, source: "server" | "operator", kind: string, payload: Record<string, unknown>): void {
+    this.writer.event({ robotId: runtime.id, seq: null, missionId: runtime.mission?.id ?? null, source, kind, payload, robotAt: null, receivedAt: new Date() });
+  }
+
+  // ——— the step cycle ———
+
+  /** After a sensed message (or a release): arrival, holds, traffic, then the next action. */
+  private async advance(runtime: RobotRuntime, stepDone: boolean): Promise<void> {
+    const mission = runtime.mission;
+    if (!mission) return;
+    const c = runtime.certainty();
+    if (runtime.massOn(mission.goal) >= this.config.arriveMass) {
+      await this.finish(runtime, "reached");
+      return;
+    }
+    if (mission.step >= this.config.maxMissionSteps) {
+      await this.finish(runtime, "failed");
+      return;
+    }
+    if (stepDone) {
+      if (c.tileMass >= this.config.releaseAbove) mission.armed = true;
+      mission.lowSteps = mission.armed && c.tileMass < this.config.holdBelow ? mission.lowSteps + 1 : 0;
+      if (!runtime.hold && mission.lowSteps >= this.config.holdAfterSteps) {
+        this.placeHold(runtime, "low_certainty", `certainty ${(c.tileMass * 100).toFixed(0)}% stayed under ${(this.config.holdBelow * 100).toFixed(0)}% for ${mission.lowSteps} steps`);
+        return;
+      }
+    }
+    if (runtime.hold === "low_certainty" && c.tileMass >= this.config.releaseAbove) {
+      this.lift(runtime, { userId: null, label: "hysteresis" });
+      return;
+    }
+    if (runtime.hold || !runtime.online || mission.awaiting) return;
+    this.sendNext(runtime);
+  }
+
+  /** Chooses and sends the next action, unless the traffic rule says wait. */
+  private sendNext(runtime: RobotRuntime): void {
+    const mission = runtime.mission;
+    if (!mission || mission.awaiting) return;
+    const policy = mission.detour ?? mission.policy;
+    const action = chooseAction(runtime.plan, policy, runtime.filter.belief, { table: runtime.filter.table });
+    const c = runtime.certainty();
+    const here = stateIndex(runtime.plan, c.row, c.col, c.heading);
+    const target = likelyTile(runtime.plan, runtime.filter.table, here, ACTIONS.indexOf(action));
+    const moves = target.row !== c.row || target.col !== c.col;
+    if (moves) {
+      const blocker = this.blockerOf(runtime, target);
+      if (blocker) {
+        this.waitForTraffic(runtime, blocker, target);
+        return;
+      }
+    }
+    if (runtime.hold === "traffic") {
+      runtime.hold = null;
+      mission.trafficSince = null;
+      this.command(runtime, "release", { mission: mission.id });
+    }
+    mission.claim = moves ? target : null;
+    mission.step += 1;
+    mission.awaiting = "moved";
+    mission.lastAction = action;
+    this.writer.mission(mission.id, { steps: mission.step });
+    this.command(runtime, "next", { mission: mission.id, step: mission.step, action });
+    this.publish(runtime);
+  }
+
+  /** Another robot standing confidently on, or claiming, `tile`. */
+  private blockerOf(runtime: RobotRuntime, tile: Tile): RobotRuntime | null {
+    for (const other of this.robots.values()) {
+      if (other === runtime || other.versionId !== runtime.versionId) continue;
+      const claim = other.mission?.claim;
+      if (claim && claim.row === tile.row && claim.col === tile.col) return other;
+      if (other.online || other.mission) {
+        const oc = other.certainty();
+        if (oc.row === tile.row && oc.col === tile.col && oc.tileMass >= this.config.trafficMass) return other;
+      }
+    }
+    return null;
+  }
+
+  private waitForTraffic(runtime: RobotRuntime, blocker: RobotRuntime, tile: Tile): void {
+    const mission = runtime.mission as MissionRuntime;
+    const now = Date.now();
+    if (runtime.hold !== "traffic") {
+      runtime.hold = "traffic";
+      mission.trafficSince = now;
+      mission.holds += 1;
+      this.writer.mission(mission.id, { holds: mission.holds });
+      this.command(runtime, "hold", { reason: "traffic", mission: mission.id });
+      logger.info({ robot: runtime.id, blocker: blocker.id, tile }, "traffic: waiting");
+      this.publish(runtime);
+      return;
+    }
+    if (mission.trafficSince !== null && now - mission.trafficSince >= this.config.trafficReplanMs && !mission.detour) {
+      const plan: Floorplan = { ...runtime.plan, blocked: Uint8Array.from(runtime.plan.blocked) };
+      plan.blocked[tile.row * plan.cols + tile.col] = 1;
+      void this.alert(runtime, "traffic", `${runtime.name} waited ${Math.round((now - mission.trafficSince) / 1000)} s for ${blocker.name}; re-planning around tile (${tile.row}, ${tile.col})`);
+      void this.policies.solveTransient(plan, mission.goal, runtime.motion).then((detour) => {
+        if (runtime.mission === mission) mission.detour = detour;
+      });
+    }
+  }
+
+  private placeHold(runtime: RobotRuntime, reason: HoldReason, why: string): void {
+    runtime.hold = reason;
+    if (runtime.mission) {
+      runtime.mission.holds += 1;
+      this.writer.mission(runtime.mission.id, { holds: runtime.mission.holds });
+    }
+    this.command(runtime, "hold", { reason, ...(runtime.mission ? { mission: runtime.mission.id } : {}) });
+    const kind: AlertKind = reason === "operator" ? "fault" : reason === "traffic" ? "traffic" : reason === "offline" ? "offline" : reason === "fault" ? "fault" : "low_certainty";
+    if (reason !== "operator") void this.alert(runtime, kind, `${runtime.name} held: ${why}`);
+    logger.info({ robot: runtime.id, reason, why }, "robot held");
+    this.publish(runtime);
+  }
+
+  private lift(runtime: RobotRuntime, actor: Actor): void {
+    runtime.hold = null;
+    const mission = runtime.mission;
+    if (mission) {
+      mission.trafficSince = null;
+      mission.lowSteps = 0;
+      if (actor.userId !== null) mission.armed = false;
+    }
+    this.command(runtime, "release", mission ? { mission: mission.id } : {});
+    logger.info({ robot: runtime.id, by: actor.label }, "robot released");
+    if (mission && !mission.awaiting) this.sendNext(runtime);
+    this.publish(runtime);
+  }
+
+  private async finish(runtime: RobotRuntime, outcome: MissionOutcome): Promise<void> {
+    const mission = runtime.mission;
+    if (!mission) return;
+    this.command(runtime, "done", { mission: mission.id, outcome });
+    this.snapshot(runtime);
+    runtime.mission = null;
+    if (runtime.hold === "traffic" || runtime.hold === "low_certainty") runtime.hold = null;
+    runtime.lastOutcome = { outcome, at: Date.now() };
+    await this.writer.commit();
+    await this.db.update(missions).set({ state: outcome, endedAt: new Date() }).where(eq(missions.id, mission.id));
+    logger.info({ robot: runtime.id, mission: mission.id, outcome, steps: mission.step }, "mission ended");
+    this.publish(runtime);
+  }
+
+  // ——— commands from dashboards and routes ———
+
+  async dispatch(robotId: string, goal: Tile, actor: Actor): Promise<{ id: number; robotId: string; goal: Tile; versionId: number; state: "active" }> {
+    const runtime = this.runtime(robotId);
+    const plan = runtime.plan;
+    const where = `Goal tile (${goal.row}, ${goal.col})`;
+    if (goal.row < 0 || goal.row >= plan.rows || goal.col < 0 || goal.col >= plan.cols) throw new TesseraError("unprocessable", "dispatch", `${where} is outside the ${plan.rows} × ${plan.cols} floorplan.`);
+    if (!isFreeTile(plan, goal.row, goal.col)) throw new TesseraError("unprocessable", "dispatch", `${where} is blocked.`);
+    if (plan.nogo[goal.row * plan.cols + goal.col]) throw new TesseraError("unprocessable", "dispatch", `${where} is a no-go tile.`);
+    if (!runtime.online) throw new TesseraError("unprocessable", "dispatch", `${runtime.name} is offline.`);
+    if (runtime.mission) throw new TesseraError("unprocessable", "dispatch", `${runtime.name} is busy with mission ${runtime.mission.id}; cancel it first.`);
+    const policy = await this.policies.get({ versionId: runtime.versionId, plan, goal, model: runtime.motion });
+    const c = runtime.certainty();
+    const here = stateIndex(plan, c.row, c.col, c.heading);
+    if (policy.value[here] < 0) throw new TesseraError("unprocessable", "dispatch", `${where} cannot be reached from ${runtime.name}'s most likely pose (${c.row}, ${c.col}).`);
+    if (runtime.mission) throw new TesseraError("unprocessable", "dispatch", `${runtime.name} was given another mission meanwhile.`);
+    const [{ id }] = await this.db
+      .insert(missions)
+      .values({ robotId, versionId: runtime.versionId, goalRow: goal.row, goalCol: goal.col, createdBy: actor.userId, minCertainty: c.tileMass })
+      .$returningId();
+    runtime.mission = newMission(id, goal, runtime.versionId, policy, 0, 0);
+    runtime.mission.armed = c.tileMass >= this.config.releaseAbove;
+    runtime.lastOutcome = null;
+    this.logCommand(runtime, "operator", "dispatch", { goal, by: actor.label });
+    await this.audit(actor, "dispatch", robotId, { mission: id, goal });
+    if (!runtime.hold) this.sendNext(runtime);
+    this.publish(runtime);
+    return { id, robotId, goal, versionId: runtime.versionId, state: "active" };
+  }
+
+  async cancel(robotId: string, actor: Actor): Promise<void> {
+    const runtime = this.runtime(robotId);
+    if (!runtime.mission) throw new TesseraError("unprocessable", "cancel", `${runtime.name} has no mission to cancel.`);
+    this.logCommand(runtime, "operator", "cancel", { by: actor.label });
+    await this.audit(actor, "cancel", robotId, { mission: runtime.mission.id });
+    await this.finish(runtime, "aborted");
+  }
+
+  async holdRobot(robotId: string, actor: Actor): Promise<void> {
+    const runtime = this.runtime(robotId);
+    this.logCommand(runtime, "operator", "hold", { by: actor.label });
+    await this.audit(actor, "hold", robotId, {});
+    this.placeHold(runtime, "operator", `held by ${actor.label}`);
+    await this.writer.commit();
+  }
+
+  async release(robotId: string, actor: Actor): Promise<void> {
+    const runtime = this.runtime(robotId);
+    if (!runtime.hold) throw new TesseraError("unprocessable", "release", `${runtime.name} is not held.`);
+    if (runtime.hold === "offline") throw new TesseraError("unprocessable", "release", `${runtime.name} is offline; it is released when it reconnects.`);
+    this.logCommand(runtime, "operator", "release", { by: actor.label, reason: runtime.hold });
+    await this.audit(actor, "release", robotId, { reason: runtime.hold });
+    this.lift(runtime, actor);
+    await this.writer.commit();
+  }
+
+  /** Resets the belief around a pose hint; the event is logged so replay does the same. */
+  async relocate(robotId: string, pose: { row: number; col: number; heading?: Heading }, actor: Actor): Promise<void> {
+    const runtime = this.runtime(robotId);
+    if (!isFreeTile(runtime.plan, pose.row, pose.col)) throw new TesseraError("unprocessable", "relocate", `Tile (${pose.row}, ${pose.col}) is blocked or outside the floorplan.`);
+    const payload = { row: pose.row, col: pose.col, ...(pose.heading ? { heading: pose.heading } : {}), by: actor.label };
+    applyToFilter(runtime, "relocate", payload);
+    const queued = this.writer.event({ robotId, seq: null, missionId: runtime.mission?.id ?? null, source: "operator", kind: "relocate", payload, robotAt: null, receivedAt: new Date() });
+    runtime.lastFilterEvent = queued;
+    this.snapshot(runtime);
+    await this.audit(actor, "relocate", robotId, payload);
+    await this.writer.commit();
+    const c = runtime.certainty();
+    runtime.recordCertainty(c.tileMass);
+    if (runtime.mission) {
+      runtime.mission.lowSteps = 0;
+      runtime.mission.armed = c.tileMass >= this.config.releaseAbove;
+    }
+    if (runtime.hold === "low_certainty" && c.tileMass >= this.config.releaseAbove) this.lift(runtime, { userId: null, label: "hysteresis" });
+    this.publishBelief(runtime);
+    this.publish(runtime);
+  }
+
+  private async audit(actor: Actor, action: string, target: string, detail: Record<string, unknown>): Promise<void> {
+    await this.db.insert(audit).values({ userId: actor.userId, action, target, detail });
+  }
+
+  private async alert(runtime: RobotRuntime, kind: AlertKind, message: string): Promise<void> {
+    try {
+      const [{ id }] = await this.db.insert(alerts).values({ robotId: runtime.id, missionId: runtime.mission?.id ?? null, kind, message }).$returningId();
+      this.emit("alert", { id, robotId: runtime.id, kind, message, createdAt: Date.now(), floorplanId: runtime.floorplanId });
+    } catch (err) {
+      logger.error({ err, robot: runtime.id, kind }, "alert could not be stored");
+    }
+  }
+
+  // ——— timers ———
+
+  private tick(): void {
+    const now = Date.now();
+    for (const runtime of this.robots.values()) {
+      if (runtime.online && runtime.lastMessageAt !== null && now - runtime.lastMessageAt > this.config.heartbeatTimeoutMs) {
+        runtime.online = false;
+        logger.info({ robot: runtime.id }, "robot offline: no heartbeat");
+        if (runtime.mission && runtime.hold !== "offline") {
+          this.placeHold(runtime, "offline", `no message for ${Math.round((now - runtime.lastMessageAt) / 1000)} s`);
+        } else {
+          this.publish(runtime);
+        }
+        continue;
+      }
+      const mission = runtime.mission;
+      if (!mission || !runtime.online) continue;
+      if (runtime.resumeAt !== null && now >= runtime.resumeAt) {
+        runtime.resumeAt = null;
+        // After a reconnect, re-issue the pending step; the robot ignores a step it has already carried out.
+        if (mission.awaiting === "moved" && mission.lastAction && !runtime.hold) {
+          runtime.socket?.emit("next", { mission: mission.id, step: mission.step, action: mission.lastAction });
+        } else if (!mission.awaiting) {
+          runtime.chain = runtime.chain.then(() => this.advance(runtime, false));
+        }
+      }
+      if (runtime.hold === "traffic" && !mission.awaiting) {
+        runtime.chain = runtime.chain.then(() => this.sendNext(runtime));
+      }
+    }
+  }
+
+  // ——— frames for dashboards ———
+
+  stateOf(runtime: RobotRuntime): RobotState {
+    if (!runtime.online) return "offline";
+    if (runtime.hold) return "held";
+    if (runtime.mission) return "under_way";
+    if (runtime.lastOutcome?.outcome === "reached" && Date.now() - runtime.lastOutcome.at < 15_000) return "arrived";
+    return "idle";
+  }
+
+  private missionRef(runtime: RobotRuntime) {
+    const m = runtime.mission;
+    return m ? { id: m.id, goal: m.goal, step: m.step } : null;
+  }
+
+  frame(runtime: RobotRuntime): RobotFrame {
+    const c = runtime.certainty();
+    const m = runtime.mission;
+    let route: Tile[] = [];
+    if (m) {
+      const policy = m.detour ?? m.policy;
+      const here = stateIndex(runtime.plan, c.row, c.col, c.heading);
+      route = routePreview(runtime.plan, runtime.filter.table, policy.action, here, m.goal);
+    }
+    return {
+      robotId: runtime.id,
+      name: runtime.name,
+      floorplanId: runtime.floorplanId,
+      versionId: runtime.versionId,
+      simulated: runtime.simulated,
+      online: runtime.online,
+      state: this.stateOf(runtime),
+      holdReason: runtime.hold,
+      battery: runtime.battery,
+      estimate: { row: c.row, col: c.col, heading: HEADINGS[c.heading], tileMass: c.tileMass, entropy: c.entropy },
+      mission: m ? { id: m.id, goal: m.goal, step: m.step, claim: m.claim, route } : null,
+      certaintyHistory: [...runtime.certaintyHistory],
+      lastMessageAt: runtime.lastMessageAt,
+    };
+  }
+
+  frames(floorplanId?: number): RobotFrame[] {
+    return [...this.robots.values()].filter((r) => floorplanId === undefined || r.floorplanId === floorplanId).map((r) => this.frame(r));
+  }
+
+  marginal(robotId: string): { rows: number; cols: number; marginal: Float32Array } | null {
+    const runtime = this.robots.get(robotId);
+    if (!runtime) return null;
+    return { rows: runtime.plan.rows, cols: runtime.plan.cols, marginal: tileMarginal(runtime.plan, runtime.filter.belief) };
+  }
+
+  publish(runtime: RobotRuntime): void {
+    this.emit("robot", this.frame(runtime));
+  }
+
+  private publishBelief(runtime: RobotRuntime): void {
+    this.emit("belief", { robotId: runtime.id, floorplanId: runtime.floorplanId, rows: runtime.plan.rows, cols: runtime.plan.cols, marginal: tileMarginal(runtime.plan, runtime.filter.belief) });
+  }
+}
+
+function seqOf(raw: unknown): number | null {
+  const seq = (raw as { seq?: unknown } | null)?.seq;
+  return typeof seq === "number" && Number.isInteger(seq) ? seq : null;
+}
+
+function newMission(id: number, goal: Tile, versionId: number, policy: MissionRuntime["policy"], step: number, holds: number): MissionRuntime {
+  return { id, goal, versionId, step, awaiting: null, lastAction: null, policy, detour: null, armed: false, lowSteps: 0, claim: null, trafficSince: null, holds, minCertainty: 1 };
+}
+
+/** Applies one stored filter event to a runtime's belief; the same code serves live, rebuild and replay. */
+export function applyToFilter(runtime: { filter: RobotRuntime["filter"]; plan: Floorplan }, kind: string, payload: Record<string, unknown>): void {
+  if (kind === "moved") runtime.filter.motion(payload.action as (typeof ACTIONS)[number]);
+  else if (kind === "sensed") runtime.filter.sense(payload.readings as SensorReading[]);
+  else if (kind === "relocate") {
+    const heading = typeof payload.heading === "string" ? (payload.heading as Heading) : undefined;
+    runtime.filter.reset(poseBelief(runtime.plan, { row: Number(payload.row), col: Number(payload.col), heading }, 0));
+  }
+}

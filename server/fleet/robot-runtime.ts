@@ -1,0 +1,101 @@
+/** One robot's live state in the fleet service: its filter, link, mission and hold. */
+import type { Socket } from "socket.io";
+import { certainty, createFilter, type Certainty, type Filter } from "../../lib/belief";
+import type { Floorplan, Tile } from "../../lib/floorplan";
+import { defaultMotion, type MotionModel } from "../../lib/motion";
+import type { Policy } from "../../lib/planning";
+import { defaultSensorModel, type SensorModel, type SensorSpec } from "../../lib/sensing";
+import type { Action, Drive, HoldReason, MissionOutcome } from "../../lib/vocabulary";
+import type { QueuedEvent } from "./writer";
+
+export interface MissionRuntime {
+  id: number;
+  goal: Tile;
+  versionId: number;
+  /** Steps sent so far; the next `next` carries step + 1. */
+  step: number;
+  /** What the link waits for in the step cycle. */
+  awaiting: "moved" | "sensed" | null;
+  lastAction: Action | null;
+  policy: Policy;
+  /** A temporary policy around a robot that blocked this one for too long. */
+  detour: Policy | null;
+  /** Certainty has reached the release level since the mission started (or the last help). */
+  armed: boolean;
+  lowSteps: number;
+  claim: Tile | null;
+  trafficSince: number | null;
+  holds: number;
+  minCertainty: number;
+}
+
+export interface RobotSettings {
+  motion?: MotionModel;
+  sensor?: SensorModel;
+  pid?: { kp: number; ki: number; kd: number };
+}
+
+export class RobotRuntime {
+  socket: Socket | null = null;
+  online = false;
+  lastMessageAt: number | null = null;
+  battery: number | null = null;
+  fault: string | null = null;
+  lastSeq = 0;
+  hold: HoldReason | null = null;
+  mission: MissionRuntime | null = null;
+  lastOutcome: { outcome: MissionOutcome; at: number } | null = null;
+  certaintyHistory: number[] = [];
+  /** Fused steps since the last snapshot. */
+  sinceSnapshot = 0;
+  /** The last event that changed the belief (moved, sensed, relocate), for snapshots. */
+  lastFilterEvent: QueuedEvent | number = 0;
+  lastTruth: { row: number; col: number; heading: string } | null = null;
+  errors: number[] = [];
+  /** Serialises this robot's messages: each is applied and committed before the next. */
+  chain: Promise<void> = Promise.resolve();
+  resumeAt: number | null = null;
+  filter: Filter;
+  readonly motion: MotionModel;
+  readonly sensorModel: SensorModel;
+
+  constructor(
+    readonly id: string,
+    public name: string,
+    readonly simulated: boolean,
+    public drive: Drive,
+    public floorplanId: number | null,
+    public versionId: number,
+    public plan: Floorplan,
+    public sensors: SensorSpec[],
+    readonly settings: RobotSettings,
+  ) {
+    this.motion = settings.motion ?? defaultMotion(drive);
+    this.sensorModel = settings.sensor ?? defaultSensorModel();
+    this.filter = createFilter(plan, this.motion, sensors, this.sensorModel);
+  }
+
+  /** Rebuilds the filter for a new sensor set, keeping the belief. */
+  setSensors(sensors: SensorSpec[]): void {
+    const belief = Float64Array.from(this.filter.belief);
+    this.sensors = sensors;
+    this.filter = createFilter(this.plan, this.motion, sensors, this.sensorModel, { table: this.filter.table });
+    this.filter.reset(belief);
+  }
+
+  certainty(): Certainty {
+    return certainty(this.plan, this.filter.belief);
+  }
+
+  /** Belief mass on one tile over all headings. */
+  massOn(tile: Tile): number {
+    const base = (tile.row * this.plan.cols + tile.col) * 4;
+    const b = this.filter.belief;
+    return b[base] + b[base + 1] + b[base + 2] + b[base + 3];
+  }
+
+  recordCertainty(value: number): void {
+    this.certaintyHistory.push(Math.round(value * 1000) / 1000);
+    if (this.certaintyHistory.length > 60) this.certaintyHistory.shift();
+  }
+}

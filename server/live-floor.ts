@@ -1,0 +1,58 @@
+/** What the live floor page renders first: the floorplan, every robot on it, recent alerts. */
+import { desc, eq } from "drizzle-orm";
+import { alerts, users } from "../db/schema";
+import { defaultFloorplanId, latestVersion, listFloorplans, planFromVersion } from "../db/queries/floorplans";
+import type { FloorplanView, LiveFloorSnapshot } from "../lib/protocol";
+import { floorplans } from "../db/schema";
+import { appDb } from "./db";
+import { TesseraError } from "./errors";
+import { runningFleet } from "./registry";
+
+export async function floorplanView(floorplanId: number): Promise<FloorplanView> {
+  const db = appDb();
+  const row = (await db.select().from(floorplans).where(eq(floorplans.id, floorplanId)).limit(1))[0];
+  const version = row ? await latestVersion(db, floorplanId) : undefined;
+  if (!row || !version) throw new TesseraError("not_found", "floorplan", `There is no floorplan ${floorplanId}.`);
+  const plan = planFromVersion(version);
+  return {
+    id: row.id,
+    name: row.name,
+    versionId: version.id,
+    version: version.version,
+    rows: plan.rows,
+    cols: plan.cols,
+    tileM: plan.tileM,
+    blocked: Array.from(plan.blocked),
+    mark: Array.from(plan.mark),
+    dock: Array.from(plan.dock),
+    nogo: Array.from(plan.nogo),
+  };
+}
+
+export async function liveFloorSnapshot(floorplanId?: number): Promise<LiveFloorSnapshot> {
+  const db = appDb();
+  const id = floorplanId ?? (await defaultFloorplanId(db));
+  if (id === undefined) throw new TesseraError("not_found", "floorplan", "No floorplan exists yet; an admin can create one under Floorplans.");
+  const floorplan = await floorplanView(id);
+  const recent = await db
+    .select({ alert: alerts, ackName: users.name })
+    .from(alerts)
+    .leftJoin(users, eq(users.id, alerts.ackBy))
+    .orderBy(desc(alerts.id))
+    .limit(50);
+  const fleet = runningFleet();
+  return {
+    floorplan,
+    floorplans: await listFloorplans(db),
+    robots: fleet.frames(id),
+    alerts: recent.map(({ alert, ackName }) => ({
+      id: alert.id,
+      robotId: alert.robotId,
+      kind: alert.kind,
+      message: alert.message,
+      createdAt: alert.createdAt.getTime(),
+      ackBy: ackName,
+      ackAt: alert.ackAt ? alert.ackAt.getTime() : null,
+    })),
+  };
+}

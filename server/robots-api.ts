@@ -1,0 +1,46 @@
+/** Registering robots: the key is generated here, returned once, and stored only hashed. */
+import { randomBytes } from "node:crypto";
+import { eq } from "drizzle-orm";
+import { z } from "zod";
+import { defaultFloorplanId } from "../db/queries/floorplans";
+import { generateRobotKey, hashRobotKey } from "../db/robot-keys";
+import { floorplans, robots } from "../db/schema";
+import { SensorSchema } from "../lib/protocol";
+import { DRIVES } from "../lib/vocabulary";
+import { appDb } from "./db";
+import { TesseraError } from "./errors";
+import { runningFleet } from "./registry";
+
+export const RegisterRobotSchema = z.object({
+  name: z.string().trim().min(1).max(80),
+  drive: z.enum(DRIVES),
+  sensors: z.array(SensorSchema).max(16),
+  floorplanId: z.number().int().positive().optional(),
+  simulated: z.boolean().optional(),
+});
+
+export async function registerRobot(input: z.infer<typeof RegisterRobotSchema>) {
+  const db = appDb();
+  const floorplanId = input.floorplanId ?? (await defaultFloorplanId(db));
+  if (floorplanId === undefined) throw new TesseraError("unprocessable", "robots", "There is no floorplan to put the robot on; create one first.");
+  if (input.floorplanId !== undefined) {
+    const exists = await db.select({ id: floorplans.id }).from(floorplans).where(eq(floorplans.id, input.floorplanId)).limit(1);
+    if (!exists.length) throw new TesseraError("unprocessable", "robots", `There is no floorplan ${input.floorplanId}.`, { fields: { floorplanId: ["unknown floorplan"] } });
+  }
+  const ids = new Set(input.sensors.map((s) => s.id));
+  if (ids.size !== input.sensors.length) throw new TesseraError("bad_request", "robots", "Sensor ids must be unique.", { fields: { sensors: ["duplicate sensor id"] } });
+  const id = `rb-${randomBytes(5).toString("hex")}`;
+  const key = generateRobotKey();
+  await db.insert(robots).values({
+    id,
+    name: input.name,
+    keyHash: hashRobotKey(key),
+    drive: input.drive,
+    sensors: input.sensors,
+    simulated: input.simulated ?? false,
+    floorplanId,
+  });
+  const row = (await db.select().from(robots).where(eq(robots.id, id)).limit(1))[0];
+  await runningFleet().register(row);
+  return { robot: { id, name: row.name, drive: row.drive, sensors: row.sensors, floorplanId, simulated: row.simulated }, key };
+}
