@@ -9,9 +9,10 @@
  * is computed "pull" style (each state gathers from its few source states),
  * fused with the correction into one sequential pass, and the normalisation
  * is deferred to the next update (which divides by the prior's mass) or to
- * whoever reads `belief`. The tables depend
- * only on (plan, model) and (plan, sensors), so robots that share them may
- * pass them in via opts instead of building their own.
+ * whoever reads `belief`. The transition and range tables depend only on
+ * (plan, model) and (plan, sensors), so robots that share them may pass them
+ * in via opts; the compressed pull tables and joint bins derived from them
+ * are built per filter (a few bytes per state).
  * Reference: Probabilistic Robotics (2005) §4.1, the discrete Bayes filter.
  */
 import type { Floorplan } from "../floorplan/types";
