@@ -4,7 +4,7 @@
  * dashboards as events. One instance per process, owning the robots connected to it.
  */
 import { EventEmitter } from "node:events";
-import { and, desc, eq, gt, inArray, isNull, max } from "drizzle-orm";
+import { and, desc, eq, gt, inArray, isNull, max, ne } from "drizzle-orm";
 import type { Socket } from "socket.io";
 import type { Db } from "../../db/client";
 import { planFromVersion, defaultFloorplanId, latestVersion, versionById } from "../../db/queries/floorplans";
@@ -127,6 +127,11 @@ export class Fleet extends EventEmitter<FleetEvents> {
     }
     const [{ last }] = await this.db.select({ last: max(events.seq) }).from(events).where(eq(events.robotId, row.id));
     runtime.lastSeq = Number(last ?? 0);
+    const [{ lastOrdered }] = await this.db
+      .select({ lastOrdered: max(events.seq) })
+      .from(events)
+      .where(and(eq(events.robotId, row.id), eq(events.source, "robot"), ne(events.kind, "hello")));
+    runtime.orderSeq = Number(lastOrdered ?? 0);
     if (active) {
       const policy = await this.policies.get({ versionId, plan, goal: { row: active.goalRow, col: active.goalCol }, model: runtime.motion });
       runtime.mission = newMission(active.id, { row: active.goalRow, col: active.goalCol }, versionId, policy, active.steps, active.holds);
@@ -220,7 +225,10 @@ export class Fleet extends EventEmitter<FleetEvents> {
     const msg = parsed.data;
     runtime.lastMessageAt = Date.now();
 
-    if (msg.seq <= runtime.lastSeq) {
+    // A hello is the resync point and comes first after a reconnect, ahead of the resent
+    // messages with lower seqs; so only non-hello messages set the order barrier.
+    const barrier = name === "hello" ? runtime.lastSeq : runtime.orderSeq;
+    if (msg.seq <= barrier || (name === "hello" && msg.seq <= runtime.lastSeq)) {
       const seen = await this.db
         .select({ id: events.id })
         .from(events)
@@ -233,7 +241,9 @@ export class Fleet extends EventEmitter<FleetEvents> {
         return { ...refuse(msg.seq, "out_of_order", `seq ${msg.seq} is below the last applied seq ${runtime.lastSeq}; continue from ${runtime.lastSeq + 1}`), lastSeq: runtime.lastSeq, state: state.state };
       }
       if (seen.length) return { ok: true, seq: msg.seq, dup: true };
-      return this.refused(runtime, refuse(msg.seq, "out_of_order", `seq ${msg.seq} was never applied and is below the last applied seq ${runtime.lastSeq}`));
+      if (msg.seq <= runtime.orderSeq) {
+        return this.refused(runtime, refuse(msg.seq, "out_of_order", `seq ${msg.seq} was never applied and is below the last applied seq ${runtime.orderSeq}`));
+      }
     }
 
     if (name === "truth" && !runtime.simulated) return this.refused(runtime, refuse(msg.seq, "bad_message", "truth: accepted only from simulated robots"));
@@ -252,7 +262,8 @@ export class Fleet extends EventEmitter<FleetEvents> {
       robotAt: msg.at,
       receivedAt: new Date(),
     });
-    runtime.lastSeq = msg.seq;
+    runtime.lastSeq = Math.max(runtime.lastSeq, msg.seq);
+    if (name !== "hello") runtime.orderSeq = msg.seq;
     const after: (() => void)[] = [];
 
     switch (name) {

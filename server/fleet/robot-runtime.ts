@@ -41,7 +41,10 @@ export class RobotRuntime {
   lastMessageAt: number | null = null;
   battery: number | null = null;
   fault: string | null = null;
+  /** Highest seq applied, hello included (reported to the robot as lastSeq). */
   lastSeq = 0;
+  /** Highest non-hello seq applied: lower unseen seqs are out of order. */
+  orderSeq = 0;
   hold: HoldReason | null = null;
   mission: MissionRuntime | null = null;
   lastOutcome: { outcome: MissionOutcome; at: number } | null = null;
