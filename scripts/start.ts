@@ -58,8 +58,22 @@ const server = spawn(process.execPath, ["--import", "tsx", "server/index.ts"], {
     NEXTAUTH_SECRET: secret,
     NEXTAUTH_URL: publicUrl,
     DEMO_PASSWORD: demoPassword,
+    TESSERA_DEMO_ERRANDS: process.env.TESSERA_DEMO_ERRANDS ?? "on",
   },
 });
+
+let simulators: ReturnType<typeof spawn> | undefined;
+
+/** The demo fleet: simulated robots that connect over /robot exactly as hardware would. */
+function startDemoFleet(): void {
+  if (process.env.TESSERA_DEMO_FLEET === "off") return;
+  simulators = spawn(
+    process.execPath,
+    ["--import", "tsx", "simulators/cli.ts", "--url", `http://${host}:${port}`, "--fleet", path.join(DATA_DIR, "demo-fleet.json"), "--floorplan", "demo"],
+    { cwd: ROOT, stdio: ["pipe", "inherit", "inherit"] },
+  );
+  process.stdin.pipe(simulators.stdin!);
+}
 
 async function waitForHealth(): Promise<boolean> {
   const deadline = Date.now() + 60_000;
@@ -79,6 +93,10 @@ let stopping = false;
 async function stop(code: number): Promise<void> {
   if (stopping) return;
   stopping = true;
+  if (simulators && simulators.exitCode === null) {
+    simulators.kill("SIGTERM");
+    await new Promise((resolve) => simulators!.once("exit", resolve));
+  }
   if (server.exitCode === null) {
     server.kill("SIGTERM");
     await new Promise((resolve) => server.once("exit", resolve));
@@ -94,10 +112,12 @@ process.on("SIGTERM", () => void stop(0));
 server.on("exit", (code) => void stop(code ?? 1));
 
 if (await waitForHealth()) {
+  startDemoFleet();
   const accounts = DEMO_USERS.map((u) => `    ${u.role.padEnd(9)} ${u.email}`).join("\n");
   console.log(
     `\nTessera is up at ${publicUrl}\n  Demo accounts (password "${demoPassword}"):\n${accounts}\n` +
       "  Moving robots can hurt people: keep people clear of robot paths and a physical emergency stop within reach.\n" +
+      "  Four simulated robots run the demo; type `help` here for fault injection (kidnap, stall, drop, drain).\n" +
       "  Press Ctrl+C to stop.\n",
   );
 } else {

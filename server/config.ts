@@ -111,7 +111,7 @@ export function fleetConfig(overrides: Partial<FleetConfig> = {}): FleetConfig {
   return { ...parsed.data, ...overrides };
 }
 
-/** Whether the demo scheduler sends idle simulated robots on errands (on unless TESSERA_DEMO_ERRANDS=off). */
+/** Whether the demo scheduler sends idle simulated robots on errands; `npm start` turns it on unless TESSERA_DEMO_ERRANDS=off. */
 export function demoErrandsEnabled(): boolean {
-  return process.env.TESSERA_DEMO_ERRANDS !== "off";
+  return process.env.TESSERA_DEMO_ERRANDS === "on";
 }

@@ -2,7 +2,8 @@ import { createServer } from "node:http";
 import next from "next";
 import { Server } from "socket.io";
 import { closeDb } from "../db/client";
-import { config, fleetConfig } from "./config";
+import { config, demoErrandsEnabled, fleetConfig } from "./config";
+import { startDemoErrands } from "./fleet/demo-errands";
 import { Fleet } from "./fleet/fleet";
 import { appDb } from "./db";
 import { logger } from "./logger";
@@ -36,6 +37,7 @@ export async function startTessera(): Promise<void> {
   registry().fleet = fleet;
   attachRobotLink(io, db, fleet);
   attachOpsFeed(io, fleet);
+  const stopErrands = demoErrandsEnabled() ? startDemoErrands(fleet) : () => {};
 
   await new Promise<void>((resolve) => http.listen(c.PORT, c.HOST, resolve));
   logger.info({ url: `http://${c.HOST}:${c.PORT}`, mode: dev ? "development" : "production" }, "Tessera is listening");
@@ -51,6 +53,7 @@ export async function startTessera(): Promise<void> {
       io.close(() => resolve());
       http.closeAllConnections?.();
     });
+    stopErrands();
     await fleet.stop();
     await closeDb();
     logger.info("stopped");

@@ -71,14 +71,14 @@ export async function startTestServer(databaseUrl: string, overrides: Partial<Fl
 }
 
 /** A bare socket.io robot connection for protocol tests: every emit waits for its ack. */
-export async function connectRobot(url: string, auth: { robot: string; key: string }): Promise<ClientSocket & { send(event: string, payload: unknown): Promise<Ack> }> {
+export async function connectRobot(url: string, auth: { robot: string; key: string }): Promise<ClientSocket & { call(event: string, payload: unknown): Promise<Ack> }> {
   const socket = connect(`${url}/robot`, { auth, reconnection: false, transports: ["websocket"] });
   await new Promise<void>((resolve, reject) => {
     socket.once("connect", () => resolve());
     socket.once("connect_error", reject);
   });
   return Object.assign(socket, {
-    send: (event: string, payload: unknown) => socket.timeout(5000).emitWithAck(event, payload) as Promise<Ack>,
+    call: (event: string, payload: unknown) => socket.timeout(5000).emitWithAck(event, payload) as Promise<Ack>,
   });
 }
 
