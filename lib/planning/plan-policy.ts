@@ -7,9 +7,11 @@
  * `stay` costs one forward step, so it is never optimal off the goal. The goal tile is terminal in
  * every heading with value 0. The mixing term of the model belongs to the filter and is ignored.
  * Steps:
- * 1. States that can reach the goal with probability 1 under some policy (almost-sure reachability,
- *    iterated on the reversed table); every other state has infinite expected cost and is marked
- *    value −1, action NO_ACTION. Actions that may leave that set are never considered.
+ * 1. States from which the goal can be reached at all (with positive probability) are kept; the
+ *    rest are dead ends, marked value −1 and action NO_ACTION. An outcome that enters a dead end
+ *    ends the mission at a finite penalty (opts.deadEndCost) instead of an infinite expected cost:
+ *    a bicycle cannot turn on the spot, and under the default model every one of its actions may
+ *    run straight on, so without the penalty every state of a walled plan would be improper.
  * 2. Warm start: a deterministic cost-to-go by Dijkstra — costToGoal for a differential drive, else
  *    Dijkstra backward over each action's most likely outcome — which orders the tiles.
  * 3. Block Gauss–Seidel value iteration: tiles in warm-start order, each tile's four headings iterated
@@ -25,8 +27,8 @@
  * On the goal tile the action is `stay` (index 3), not NO_ACTION, so a robot there is told to hold.
  * A goal outside the plan, on a blocked tile or on a no-go tile is unreachable: every value −1.
  * References: Bertsekas and Tsitsiklis, "Neuro-Dynamic Programming" (1996), §2.2 (stochastic
- * shortest paths, Gauss–Seidel value iteration); de Alfaro, "Formal Verification of Probabilistic
- * Systems" (1997), almost-sure reachability; both from memory.
+ * shortest paths, Gauss–Seidel value iteration); Kolobov, Mausam and Weld, "A Theory of
+ * Goal-Oriented MDPs with Dead Ends" (UAI 2012), finite dead-end penalty; both from memory.
  */
 import type { Floorplan, Tile } from "../floorplan/types";
 import { stateCount } from "../floorplan/types";
@@ -54,6 +56,8 @@ export interface PlanOptions {
   maxSweeps?: number;
   /** Called after each sweep with its number (from 1) and its largest value change. */
   onSweep?: (sweep: number, change: number) => void;
+  /** Cost of entering a dead end (no route to the goal left), cost units; default 1000 forward steps. */
+  deadEndCost?: number;
 }
 
 /**
@@ -116,59 +120,37 @@ function reverseTable(table: TransitionTable): ReversedTable {
   return { entryPair, reverseOffsets, reverseEntry };
 }
 
-/** Which states keep a proper policy, which (s, a) pairs are unsafe, and the warm-start order of the kept non-goal states. */
+/** Which states can still reach the goal, and the warm-start order of the kept non-goal states. */
 interface Start {
   kept: Uint8Array;
-  unsafe: Uint8Array;
   order: Int32Array;
 }
 
 /**
- * Generic start for any table: almost-sure reachability on the reversed table (keep the states that
- * reach the goal through actions whose every outcome stays kept; repeat while dropping states makes
- * more actions unsafe), then Dijkstra backward over each safe action's most likely outcome, writing
- * the deterministic cost into `value`. Kept states that Dijkstra never reaches come last.
+ * Generic start for any table: the states that reach the goal with positive probability (a search
+ * backward over the reversed table), then Dijkstra backward over each action's most likely outcome,
+ * writing the deterministic cost into `value`. Kept states that Dijkstra never reaches come last.
  */
 function genericStart(table: TransitionTable, goalBase: number, cost: Float64Array, bumpCost: number, value: Float64Array): Start {
   const { states, offsets, prob, bumped } = table;
   const { entryPair, reverseOffsets, reverseEntry } = reverseTable(table);
   const kept = new Uint8Array(states);
-  for (let s = 0; s < states; s++) if (offsets[s * 4] !== offsets[s * 4 + 4]) kept[s] = 1;
-  const unsafe = new Uint8Array(states * 4);
-  const reached = new Uint8Array(states);
   const queue = new Int32Array(states);
-  for (;;) {
-    reached.fill(0);
-    let head = 0;
-    let tail = 0;
-    for (let h = 0; h < 4; h++) {
-      reached[goalBase + h] = 1;
-      queue[tail++] = goalBase + h;
+  let head = 0;
+  let tail = 0;
+  for (let h = 0; h < 4; h++) {
+    kept[goalBase + h] = 1;
+    queue[tail++] = goalBase + h;
+  }
+  while (head < tail) {
+    const target = queue[head++];
+    const end = reverseOffsets[target + 1];
+    for (let r = reverseOffsets[target]; r < end; r++) {
+      const s = entryPair[reverseEntry[r]] >> 2;
+      if (kept[s]) continue;
+      kept[s] = 1;
+      queue[tail++] = s;
     }
-    while (head < tail) {
-      const target = queue[head++];
-      const end = reverseOffsets[target + 1];
-      for (let r = reverseOffsets[target]; r < end; r++) {
-        const pair = entryPair[reverseEntry[r]];
-        const s = pair >> 2;
-        if (reached[s] || !kept[s] || unsafe[pair]) continue;
-        reached[s] = 1;
-        queue[tail++] = s;
-      }
-    }
-    let newlyUnsafeInside = false;
-    for (let s = 0; s < states; s++) {
-      if (!kept[s] || reached[s]) continue;
-      kept[s] = 0;
-      const end = reverseOffsets[s + 1];
-      for (let r = reverseOffsets[s]; r < end; r++) {
-        const pair = entryPair[reverseEntry[r]];
-        if (unsafe[pair]) continue;
-        unsafe[pair] = 1;
-        if (reached[pair >> 2]) newlyUnsafeInside = true;
-      }
-    }
-    if (!newlyUnsafeInside) break;
   }
 
   const pairs = states * 4;
@@ -197,9 +179,9 @@ function genericStart(table: TransitionTable, goalBase: number, cost: Float64Arr
     for (let r = reverseOffsets[target]; r < end; r++) {
       const e = reverseEntry[r];
       const pair = entryPair[e];
-      if (nominal[pair] !== e || unsafe[pair]) continue;
+      if (nominal[pair] !== e) continue;
       const s = pair >> 2;
-      if (settled[s] || !kept[s]) continue;
+      if (settled[s]) continue;
       const candidate = d + cost[pair & 3] + (bumped[e] ? bumpCost : 0);
       if (candidate < value[s]) {
         value[s] = candidate;
@@ -210,19 +192,19 @@ function genericStart(table: TransitionTable, goalBase: number, cost: Float64Arr
   let highest = 0;
   for (let i = 0; i < ordered; i++) if (value[order[i]] > highest) highest = value[order[i]];
   for (let s = 0; s < states; s++) {
-    if (kept[s] && !settled[s] && (s < goalBase || s >= goalBase + 4)) {
+    if (kept[s] && !settled[s]) {
       value[s] = highest;
       order[ordered++] = s;
     }
+    if (!kept[s]) value[s] = 0;
   }
-  for (let s = 0; s < states; s++) if (!kept[s]) value[s] = 0;
-  return { kept, unsafe, order: order.subarray(0, ordered) };
+  return { kept, order: order.subarray(0, ordered) };
 }
 
 /**
  * Start for a differential drive with forward.ok > 0 and turn.ok > 0: every deterministic route then
  * has positive probability and no outcome leaves the goal's connected region, so the states of finite
- * deterministic cost are exactly those with a proper policy and no action of theirs is unsafe.
+ * deterministic cost are exactly those that can reach the goal, and there are no dead ends to enter.
  */
 function differentialStart(plan: Floorplan, goal: Tile, model: MotionModel, value: Float64Array): Start {
   const states = value.length;
@@ -233,12 +215,13 @@ function differentialStart(plan: Floorplan, goal: Tile, model: MotionModel, valu
     kept[s] = d >= 0 ? 1 : 0;
     value[s] = d >= 0 ? d : 0;
   }
-  return { kept, unsafe: new Uint8Array(states * 4), order: start.order.subarray(4, start.count) };
+  return { kept, order: start.order.subarray(4, start.count) };
 }
 
 /**
  * The Bellman backups of the kept non-goal states, in sweep order, with each action's self-loop solved:
- * Q(s, a) = pairConstant + Σ weight·V(target) over the outcomes that leave s.
+ * Q(s, a) = pairConstant + Σ weight·V(target) over the outcomes that leave s for another kept state
+ * (outcomes into dead ends are folded into pairConstant with their penalty).
  */
 interface SweepTable {
   /** States in sweep order, grouped into tile blocks order[blockStart[b] .. blockStart[b+1]). */
@@ -320,6 +303,7 @@ function compactAndSweep(
   start: Start,
   cost: Float64Array,
   bumpCost: number,
+  deadEndCost: number,
   goalTile: number,
   value: Float64Array,
   action: Uint8Array,
@@ -327,7 +311,7 @@ function compactAndSweep(
   before: Float64Array,
 ): { sweepTable: SweepTable; change: number } {
   const { offsets, next, prob, bumped, states } = table;
-  const { kept, unsafe } = start;
+  const { kept } = start;
   const m = start.order.length;
   const order = new Int32Array(m);
   const blockStart = new Int32Array(m + 1);
@@ -365,7 +349,6 @@ function compactAndSweep(
       stateStart[k] = pairCount;
       for (let a = 0; a < 4; a++) {
         const pair = s * 4 + a;
-        if (unsafe[pair]) continue;
         const end = offsets[pair + 1];
         const firstEntry = entryCount;
         let self = 0;
@@ -376,6 +359,8 @@ function compactAndSweep(
           const n = next[e];
           if (n === s) {
             self += p;
+          } else if (!kept[n]) {
+            expectedCost += p * deadEndCost;
           } else {
             target[entryCount] = n;
             weight[entryCount] = p;
@@ -415,6 +400,8 @@ export function planPolicy(plan: Floorplan, goal: Tile, model: MotionModel = def
   if (!Number.isInteger(maxSweeps) || maxSweeps < 1) throw new RangeError("planPolicy: maxSweeps must be a positive integer");
   const cost = actionCosts(model);
   const bumpCost = model.cost.bump;
+  const deadEndCost = opts.deadEndCost ?? 1000 * cost[0];
+  if (!(deadEndCost > 0) || !Number.isFinite(deadEndCost)) throw new RangeError("planPolicy: deadEndCost must be positive and finite");
   const states = stateCount(plan);
   const { rows, cols } = plan;
   const goalCopy = { row: goal.row, col: goal.col };
@@ -437,7 +424,7 @@ export function planPolicy(plan: Floorplan, goal: Tile, model: MotionModel = def
 
   const action = new Uint8Array(states).fill(NO_ACTION);
   const before = new Float64Array(4);
-  const first = compactAndSweep(table, start, cost, bumpCost, goalTile, value, action, epsilon, before);
+  const first = compactAndSweep(table, start, cost, bumpCost, deadEndCost, goalTile, value, action, epsilon, before);
   const { sweepTable } = first;
   let sweeps = 1;
   let converged = first.change < epsilon;
