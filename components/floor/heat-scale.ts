@@ -11,11 +11,13 @@ export const HEAT_MIN_MASS = 1e-4;
 /** Tessera's heat ramp, from a deep sea-glass to a pale foam, as stops on [0, 1]. */
 export const HEAT_STOPS = ["#0b3b4a", "#127a78", "#2dd4bf", "#b8f5e6", "#fff7d6"] as const;
 
+/** The mass axis; built once because a repaint reads it for every tile. It is never mutated. */
+const MASS_AXIS = scaleLog<number>({ domain: [HEAT_MIN_MASS, 1], range: [0, 1], clamp: true });
+
 /** Position on the heat ramp in [0, 1] for a tile mass (clamped; NaN and ≤ HEAT_MIN_MASS give 0). */
 export function heatPosition(mass: number): number {
   if (!(mass > HEAT_MIN_MASS)) return 0;
-  const axis = scaleLog<number>({ domain: [HEAT_MIN_MASS, 1], range: [0, 1], clamp: true });
-  return axis(mass);
+  return MASS_AXIS(mass);
 }
 
 /** The visx colour scale over ramp positions [0, 1]; returns "rgb(r, g, b)" strings. */
@@ -31,16 +33,16 @@ export function heatOpacity(position: number): number {
 }
 
 /**
- * 256 precomputed fill styles ("rgba(...)") for ramp positions 0/255 … 255/255, so a
- * canvas redraw looks colours up instead of interpolating per tile. Entry 0 is "".
+ * RGBA bytes for ramp positions 0/255 … 255/255 (entry i at 4i … 4i+3), so a canvas
+ * repaint looks colours up instead of interpolating per tile. Entry 0 is transparent.
  */
-export function heatFillTable(): string[] {
+export function heatRgbaTable(): Uint8ClampedArray {
   const colour = heatColourScale();
-  const table: string[] = [""];
+  const table = new Uint8ClampedArray(256 * 4);
   for (let i = 1; i < 256; i++) {
     const p = i / 255;
-    const rgb = colour(p).match(/\d+(\.\d+)?/g) ?? ["0", "0", "0"];
-    table.push(`rgba(${rgb[0]}, ${rgb[1]}, ${rgb[2]}, ${heatOpacity(p).toFixed(3)})`);
+    const rgb = (colour(p).match(/\d+(\.\d+)?/g) ?? ["0", "0", "0"]).map(Number);
+    table.set([rgb[0], rgb[1], rgb[2], Math.round(heatOpacity(p) * 255)], i * 4);
   }
   return table;
 }

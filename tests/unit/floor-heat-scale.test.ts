@@ -3,7 +3,7 @@
  * Expected positions are log10 arithmetic (log10(1e-2) lies halfway between -4 and 0).
  */
 import { describe, expect, it } from "vitest";
-import { HEAT_MIN_MASS, HEAT_STOPS, heatColourScale, heatFillTable, heatIndex, heatOpacity, heatPosition } from "@/components/floor/heat-scale";
+import { HEAT_MIN_MASS, HEAT_STOPS, heatColourScale, heatRgbaTable, heatIndex, heatOpacity, heatPosition } from "@/components/floor/heat-scale";
 
 describe("heatPosition", () => {
   it("places masses on the log axis", () => {
@@ -33,19 +33,21 @@ describe("heatColourScale", () => {
   });
 });
 
-describe("heatOpacity and heatFillTable", () => {
+describe("heatOpacity and heatRgbaTable", () => {
   it("rises from faint tails to 0.9 at the peak", () => {
     expect(heatOpacity(0)).toBe(0);
     expect(heatOpacity(0.25)).toBeCloseTo(0.36, 12);
     expect(heatOpacity(1)).toBeCloseTo(0.9, 12);
   });
 
-  it("precomputes 256 fills, the first empty and the last the ramp's end", () => {
-    const table = heatFillTable();
-    expect(table).toHaveLength(256);
-    expect(table[0]).toBe("");
-    expect(table[255]).toBe("rgba(255, 247, 214, 0.900)");
-    expect(new Set(table).size).toBeGreaterThan(200);
+  it("precomputes 256 RGBA entries, the first transparent and the last the ramp's end", () => {
+    const table = heatRgbaTable();
+    expect(table).toHaveLength(1024);
+    expect([...table.subarray(0, 4)]).toEqual([0, 0, 0, 0]);
+    // 0.18 + 0.72 is 0.8999… in binary floating point: 229.49… rounds to 229
+    expect([...table.subarray(1020, 1024)]).toEqual([255, 247, 214, 229]);
+    // halfway up the table (entry 128, position 0.502) sits just past the middle stop #2dd4bf
+    expect([...table.subarray(512, 515)].map((v, i) => Math.abs(v - [45, 212, 191][i]) <= 2)).toEqual([true, true, true]);
   });
 
   it("indexes a mass into the table", () => {
