@@ -7,7 +7,7 @@
 
 import { useCallback, useEffect, useRef } from "react";
 import { io, type Socket } from "socket.io-client";
-import { AlertFrameSchema, OPS_EVENTS, RobotFrameSchema, type LiveFloorSnapshot, type OpsAck, type OpsCommand, type OpsCommandName } from "@/lib/protocol/ops-feed";
+import { AlertFrameSchema, OPS_EVENTS, RobotFrameSchema, type AlertFrame, type OpsAck, type OpsCommand, type OpsCommandName, type RobotFrame } from "@/lib/protocol/ops-feed";
 import { beliefFromWire } from "./belief";
 import type { FloorStore } from "./store";
 
@@ -16,8 +16,14 @@ export const COMMAND_TIMEOUT_MS = 8000;
 
 export type SendCommand = <K extends Exclude<OpsCommandName, "watch">>(name: K, payload: OpsCommand<K>) => Promise<OpsAck>;
 
-function looksLikeSnapshot(data: unknown): data is Pick<LiveFloorSnapshot, "robots" | "alerts"> {
-  return typeof data === "object" && data !== null && Array.isArray((data as { robots?: unknown }).robots) && Array.isArray((data as { alerts?: unknown }).alerts);
+/** The robots (and, if sent, alerts) in a watch acknowledgement, validated; null when it carries none. */
+function resyncOf(data: unknown): { robots: RobotFrame[]; alerts?: AlertFrame[] } | null {
+  if (typeof data !== "object" || data === null) return null;
+  const { robots, alerts } = data as { robots?: unknown; alerts?: unknown };
+  if (!Array.isArray(robots)) return null;
+  const frames = robots.map((r) => RobotFrameSchema.safeParse(r)).flatMap((p) => (p.success ? [p.data] : []));
+  const alertFrames = Array.isArray(alerts) ? alerts.map((a) => AlertFrameSchema.safeParse(a)).flatMap((p) => (p.success ? [p.data] : [])) : undefined;
+  return { robots: frames, alerts: alertFrames };
 }
 
 function refusal(code: string, message: string): OpsAck {
@@ -50,7 +56,8 @@ export function useOpsSocket(store: FloorStore): SendCommand {
       void emitWithAck(socket, "watch", { floorplanId }).then((ack) => {
         if (ack.ok) {
           s().setConnection("live");
-          if (looksLikeSnapshot(ack.data)) s().applySnapshot(ack.data);
+          const resync = resyncOf(ack.data);
+          if (resync) s().applySnapshot(resync);
         } else {
           s().setConnection("refused", ack.error.message);
         }

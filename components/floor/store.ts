@@ -55,7 +55,8 @@ export interface FloorState {
 }
 
 export interface FloorActions {
-  applySnapshot(snapshot: Pick<LiveFloorSnapshot, "robots" | "alerts">): void;
+  /** Replaces the robots (and the alerts, when given) after a (re)connect. */
+  applySnapshot(snapshot: { robots: RobotFrame[]; alerts?: AlertFrame[] }): void;
   upsertRobot(frame: RobotFrame): void;
   removeRobot(robotId: string): void;
   putBelief(view: BeliefView): void;
@@ -125,7 +126,7 @@ export function createFloorStore(snapshot: LiveFloorSnapshot): FloorStore {
       set({
         robots: fresh,
         robotIds: ids,
-        alerts: alertsNewestFirst(next.alerts).slice(0, ALERTS_KEPT),
+        alerts: next.alerts ? alertsNewestFirst(next.alerts).slice(0, ALERTS_KEPT) : get().alerts,
         selectedId: selectedId && fresh[selectedId] ? selectedId : (ids[0] ?? null),
       });
     },
