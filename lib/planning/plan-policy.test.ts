@@ -131,7 +131,7 @@ describe("planPolicy properties (fast-check)", () => {
           for (let steps = 0; (s >> 2) !== goalTile; steps++) {
             expect(steps).toBeLessThan(rows * cols * 4);
             const action = policy.action[s];
-            let next = s;
+            let next: number;
             const tile = s >> 2;
             const h = s & 3;
             if (action === 0) {
