@@ -137,6 +137,20 @@ export function defaultPlantParams(drive: Drive, tileM: number): PlantParams {
   return { ...common, drive: { kind: "differential", trackM: 0.13, maxWheelMS: 0.35, wheelAccelMS2: 1.2, biasLeft: 0.006, biasRight: -0.006 } };
 }
 
+/**
+ * Per-robot manufacturing spread around defaultPlantParams, drawn from rng: wheel diameter
+ * errors σ 0.6 % per wheel, gyro bias σ 0.003 rad/s and scale error σ 0.2 %, steering
+ * misalignment σ 0.015 rad (Tessera's demo values, not from a source).
+ */
+export function samplePlantParams(drive: Drive, tileM: number, rng: Rng): PlantParams {
+  const base = defaultPlantParams(drive, tileM);
+  const gyro = { ...base.gyro, biasRadS: 0.003 * rng.gaussian(), scaleError: 0.002 * rng.gaussian() };
+  if (base.drive.kind === "differential") {
+    return { ...base, gyro, drive: { ...base.drive, biasLeft: 0.006 * rng.gaussian(), biasRight: 0.006 * rng.gaussian() } };
+  }
+  return { ...base, gyro, drive: { ...base.drive, biasRear: 0.006 * rng.gaussian(), steerBiasRad: 0.015 * rng.gaussian() } };
+}
+
 /** Heading index 0..3 (N, E, S, W) to θ in radians. */
 export function headingTheta(heading: number): number {
   return wrapRadians(Math.PI / 2 - (heading * Math.PI) / 2);
