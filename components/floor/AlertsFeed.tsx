@@ -24,19 +24,19 @@ const AlertItem = memo(function AlertItem({ alert }: { alert: AlertFrame }) {
     >
       <div className="flex items-baseline justify-between gap-2">
         <span className={clsx("text-xs font-semibold uppercase tracking-wide", acked ? "text-ink-500" : urgent ? "text-coral" : "text-amberline")}>{ALERT_LABELS[alert.kind]}</span>
-        <span className="text-xs text-ink-500">
-          <Age at={alert.createdAt} staleS={Number.POSITIVE_INFINITY} /> ago
+        <span className="flex items-baseline gap-2 text-xs text-ink-500">
+          {known && robotName && (
+            <button type="button" className="underline decoration-ink-700 underline-offset-2 hover:text-ink-100 hover:decoration-tide" onClick={() => alert.robotId && select(alert.robotId)}>
+              Show {robotName}
+            </button>
+          )}
+          <span>
+            <Age at={alert.createdAt} staleS={Number.POSITIVE_INFINITY} /> ago
+          </span>
         </span>
       </div>
       <p className="mt-0.5 text-ink-100">
-        {robotName &&
-          (known ? (
-            <button type="button" className="mr-1 font-semibold underline decoration-ink-500 underline-offset-2 hover:decoration-tide" onClick={() => alert.robotId && select(alert.robotId)}>
-              {robotName}
-            </button>
-          ) : (
-            <span className="mr-1 font-semibold">{robotName}</span>
-          ))}
+        {robotName && !alert.message.startsWith(robotName) && <span className="mr-1 font-semibold">{robotName}:</span>}
         {alert.message}
       </p>
       <div className="mt-1 text-xs">
