@@ -400,7 +400,8 @@ export function createRobotClient(opts: RobotClientOptions): RobotClient {
 
   socket.on("connect_error", (err: Error & { data?: { code?: string } }) => {
     const code = err.data?.code ?? err.message;
-    refusal = code;
+    // Only the server's middleware sends a code; a transport failure is not a refusal.
+    if (err.data?.code) refusal = code;
     if (FINAL_HANDSHAKE_CODES.has(code)) {
       log.warn({ robot: opts.robotId, code }, "handshake refused; not retrying");
       stop("refused", code as StopCode);

@@ -115,7 +115,8 @@ export function createActionController(action: Action, state: SimState, control:
   const pid: Pid = createPid({ ...control.pid, outMin: -control.maxTurnRateRadS, outMax: control.maxTurnRateRadS });
 
   let phase: "run" | "settle" | "done" = action === "stay" ? "settle" : "run";
-  let settleStartS = action === "stay" ? startS : 0;
+  // Null while an abort waits for the next command to learn the time.
+  let settleStartS: number | null = action === "stay" ? startS : 0;
   let previousHeading = startHeading;
   let previousEncoder = startEncoder;
   let turnedRad = 0;
@@ -156,7 +157,7 @@ export function createActionController(action: Action, state: SimState, control:
       if (phase !== "run") return;
       aborted = true;
       phase = "settle";
-      settleStartS = Number.NaN;
+      settleStartS = null;
     },
     command(current, dtS) {
       const stop = stopCommand(drive.kind);
@@ -169,7 +170,7 @@ export function createActionController(action: Action, state: SimState, control:
       const encoderRate = (encoder - previousEncoder) / dtS;
       previousEncoder = encoder;
       const travelled = encoder - startEncoder;
-      if (Number.isNaN(settleStartS)) settleStartS = current.timeS;
+      if (settleStartS === null) settleStartS = current.timeS;
 
       if (phase === "run") {
         if (current.bumped) {
@@ -207,7 +208,8 @@ export function createActionController(action: Action, state: SimState, control:
       }
       // Settling: brake and wait until the encoders and the gyro say the robot is still.
       const still = Math.abs(encoderRate) < 1e-4 && Math.abs(rate) < STILL_RAD_S;
-      if ((still && current.timeS > settleStartS) || current.timeS - settleStartS > control.settleS) {
+      const settlingS = current.timeS - (settleStartS ?? current.timeS);
+      if ((still && settlingS > 0) || settlingS > control.settleS) {
         phase = "done";
         endS = current.timeS;
         endEncoder = encoder;
