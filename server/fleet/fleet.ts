@@ -143,6 +143,20 @@ export class Fleet extends EventEmitter<FleetEvents> {
     return runtime;
   }
 
+  /** After a failed write the in-memory state ran ahead of the log: rebuild it from what was stored. */
+  private async recover(stale: RobotRuntime): Promise<void> {
+    const row = (await this.db.select().from(robots).where(eq(robots.id, stale.id)).limit(1))[0];
+    if (!row) return;
+    const fresh = await this.load(row);
+    fresh.socket = stale.socket;
+    fresh.online = stale.online;
+    fresh.lastMessageAt = stale.lastMessageAt;
+    fresh.battery = stale.battery;
+    fresh.hold = stale.hold;
+    fresh.certaintyHistory = stale.certaintyHistory;
+    this.publish(fresh);
+  }
+
   private runtime(robotId: string): RobotRuntime {
     const runtime = this.robots.get(robotId);
     if (!runtime) throw new TesseraError("not_found", "robot", `There is no active robot ${robotId}.`);
@@ -185,9 +199,10 @@ export class Fleet extends EventEmitter<FleetEvents> {
     }
     runtime.chain = runtime.chain
       .then(() => this.apply(runtime, event, raw))
-      .then(ack, (err: unknown) => {
-        logger.error({ err, robot: robotId, event }, "robot message failed");
+      .then(ack, async (err: unknown) => {
+        logger.error({ err, robot: robotId, event }, "robot message failed; rebuilding the robot from the database");
         ack(refuse(seqOf(raw), "internal", "The server could not store this message; send it again."));
+        await this.recover(runtime).catch((e: unknown) => logger.error({ err: e, robot: robotId }, "robot rebuild failed"));
       });
   }
 
@@ -227,8 +242,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
 
     // A hello is the resync point and comes first after a reconnect, ahead of the resent
     // messages with lower seqs; so only non-hello messages set the order barrier.
-    const barrier = name === "hello" ? runtime.lastSeq : runtime.orderSeq;
-    if (msg.seq <= barrier || (name === "hello" && msg.seq <= runtime.lastSeq)) {
+    if (msg.seq <= runtime.lastSeq) {
       const seen = await this.db
         .select({ id: events.id })
         .from(events)
