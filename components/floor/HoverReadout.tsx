@@ -33,7 +33,7 @@ export function HoverReadout() {
   const kind = tileKind(plan, hover.row, hover.col);
   const mark = plan.mark[hover.row * plan.cols + hover.col];
   return (
-    <span data-testid="hover-readout" className="font-mono tabular-nums">
+    <span data-testid="hover-readout" data-kind={kind} className="font-mono tabular-nums">
       <span className="text-ink-100">
         ({hover.row}, {hover.col})
       </span>{" "}

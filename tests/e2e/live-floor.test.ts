@@ -90,17 +90,20 @@ async function nearbyFreeTile(page: Page, from: MarkerInfo, taken: MarkerInfo[])
     return m ? { rows: Number(m[1]), cols: Number(m[2]) } : null;
   });
   if (!plan) throw new Error("the floor map does not state its size");
-  for (const [dr, dc] of [[0, 3], [0, -3], [3, 0], [-3, 0], [0, 2], [0, -2], [2, 0], [-2, 0], [2, 2], [-2, -2], [2, -2], [-2, 2]]) {
+  const seen: string[] = [];
+  for (const [dr, dc] of [[0, 3], [0, -3], [3, 0], [-3, 0], [0, 2], [0, -2], [2, 0], [-2, 0], [2, 2], [-2, -2], [2, -2], [-2, 2], [0, 1], [0, -1], [1, 0], [-1, 0], [1, 1], [-1, -1]]) {
     const row = from.row + dr;
     const col = from.col + dc;
     if (row < 0 || col < 0 || row >= plan.rows || col >= plan.cols || taken.some((t) => t.row === row && t.col === col)) continue;
     await page.mouse.move(0, 0);
     const box = await page.getByTestId("floor-map").boundingBox();
     await page.mouse.move(box!.x + ((col + 0.5) / plan.cols) * box!.width, box!.y + ((row + 0.5) / plan.rows) * box!.height);
-    const readout = await page.getByTestId("hover-readout").innerText();
-    if (/\b(free|floor mark|mark \d)\b/.test(readout) && !/blocked|no-go/.test(readout)) return { row, col, ...plan };
+    const readout = page.getByTestId("hover-readout");
+    const kind = (await readout.getAttribute("data-kind")) ?? "";
+    seen.push(`${await readout.innerText()} [${kind}]`);
+    if (["free", "mark", "dock"].includes(kind)) return { row, col, ...plan };
   }
-  throw new Error(`no free tile near (${from.row}, ${from.col})`);
+  throw new Error(`no free tile near (${from.row}, ${from.col}); read ${seen.join(" | ")}`);
 }
 
 describe("live floor", () => {
@@ -141,7 +144,7 @@ describe("live floor", () => {
       await page.getByTestId("robot-card").waitFor();
       // Tile (0, 0) is the outer wall of the demo floor.
       await page.locator("#goal-row").fill("0");
-      await page.getByLabel("Column").fill("0");
+      await page.getByRole("textbox", { name: "Column" }).fill("0");
       await page.getByRole("button", { name: "Send…" }).click();
       const notice = page.getByTestId("floor-notice");
       await notice.waitFor();
@@ -193,7 +196,7 @@ describe("live floor", () => {
       const cdp = await context.newCDPSession(page);
       const events: { name: string; ph: string; dur?: number; pid: number; tid: number; args?: { name?: string } }[] = [];
       cdp.on("Tracing.dataCollected", (e) => events.push(...(e.value as unknown as typeof events)));
-      await cdp.send("Tracing.start", { categories: "devtools.timeline", transferMode: "ReportEvents" });
+      await cdp.send("Tracing.start", { categories: "toplevel,devtools.timeline,disabled-by-default-devtools.timeline", transferMode: "ReportEvents" });
       await page.waitForTimeout(8000);
       const done = new Promise((resolve) => cdp.once("Tracing.tracingComplete", resolve));
       await cdp.send("Tracing.end");
