@@ -66,14 +66,14 @@ export function Certainty({ value }: { value: number | null }) {
       <span className="relative inline-block h-1.5 w-12 overflow-hidden rounded-full bg-ink-700" aria-hidden>
         <span className={clsx("absolute inset-y-0 left-0 rounded-full", v < 0.35 ? "bg-amberline" : "bg-tide")} style={{ width: `${Math.round(Math.min(1, Math.max(0, v)) * 100)}%` }} />
       </span>
-      <span className="font-mono text-xs tabular-nums">{formatPercent(value)}</span>
+      <span className="whitespace-nowrap font-mono text-xs tabular-nums">{formatPercent(value)}</span>
     </span>
   );
 }
 
 /** Battery as a percentage; coral under 20 %. */
 export function Battery({ value }: { value: number | null }) {
-  return <span className={clsx("font-mono text-xs tabular-nums", value !== null && value < 0.2 && "text-coral")}>{formatPercent(value)}</span>;
+  return <span className={clsx("whitespace-nowrap font-mono text-xs tabular-nums", value !== null && value < 0.2 && "text-coral")}>{formatPercent(value)}</span>;
 }
 
 /** A small key cap for shortcut hints. */
