@@ -26,7 +26,7 @@ import {
   type ServerMessage,
 } from "../../lib/protocol";
 import type { SensorReading, SensorSpec } from "../../lib/sensing";
-import { ACTIONS, HEADINGS, type AckCode, type AlertKind, type Heading, type HoldReason, type MissionOutcome, type RobotState } from "../../lib/vocabulary";
+import { ACTIONS, HEADINGS, NO_ACTION, type AckCode, type AlertKind, type Heading, type HoldReason, type MissionOutcome, type RobotState } from "../../lib/vocabulary";
 import type { FleetConfig } from "../config";
 import { TesseraError } from "../errors";
 import { logger } from "../logger";
@@ -261,7 +261,9 @@ export class Fleet extends EventEmitter<FleetEvents> {
     }
 
     if (name === "truth" && !runtime.simulated) return this.refused(runtime, refuse(msg.seq, "bad_message", "truth: accepted only from simulated robots"));
-    if (name === "moved" && !runtime.mission) return this.refused(runtime, refuse(msg.seq, "no_mission", "moved: the robot has no active mission"));
+    // A move that finishes just after its mission ended (done, cancel) still happened and is fused.
+    const recentlyEnded = runtime.lastOutcome !== null && Date.now() - runtime.lastOutcome.at < 30_000;
+    if (name === "moved" && !runtime.mission && !recentlyEnded) return this.refused(runtime, refuse(msg.seq, "no_mission", "moved: the robot has no active mission"));
 
     const payload = { ...(msg as Record<string, unknown>) };
     delete payload.seq;
@@ -415,9 +417,13 @@ export class Fleet extends EventEmitter<FleetEvents> {
     const mission = runtime.mission;
     if (!mission || mission.awaiting) return;
     const policy = mission.detour ?? mission.policy;
-    const action = chooseAction(runtime.plan, policy, runtime.filter.belief, { table: runtime.filter.table });
     const c = runtime.certainty();
     const here = stateIndex(runtime.plan, c.row, c.col, c.heading);
+    // Dual-mode control (Cassandra, Kaelbling and Kurien, 1996; from memory): QMDP never
+    // moves just to learn, so while the belief is spread the robot follows the policy of its
+    // most likely state, whose moves past walls and marks sharpen the belief.
+    const unsure = c.tileMass < this.config.releaseAbove && policy.action[here] !== NO_ACTION;
+    const action = unsure ? ACTIONS[policy.action[here]] : chooseAction(runtime.plan, policy, runtime.filter.belief, { table: runtime.filter.table });
     const target = likelyTile(runtime.plan, runtime.filter.table, here, ACTIONS.indexOf(action));
     const moves = target.row !== c.row || target.col !== c.col;
     if (moves) {
