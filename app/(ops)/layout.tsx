@@ -1,6 +1,7 @@
 import type { ReactNode } from "react";
 import { NavLinks, type NavItem } from "@/components/shell/NavLinks";
 import { SignOutButton } from "@/components/shell/SignOutButton";
+import { ThemeToggle } from "@/components/shell/ThemeToggle";
 import { requirePageRole } from "@/server/facade";
 
 const BASE_NAV: NavItem[] = [
@@ -24,6 +25,7 @@ export default async function OpsLayout({ children }: { children: ReactNode }) {
         <div className="flex items-center gap-3 text-sm" data-testid="signed-in-user">
           <span className="text-ink-100">{user.name}</span>
           <span className="rounded bg-ink-800 px-1.5 py-0.5 font-mono text-xs text-ink-300">{user.role}</span>
+          <ThemeToggle />
           <SignOutButton />
         </div>
       </header>
