@@ -57,3 +57,11 @@ export function zodFields(error: { issues: { path: PropertyKey[]; message: strin
   }
   return fields;
 }
+
+/**
+ * True for a TesseraError from any copy of this module: route handlers are bundled apart
+ * from the custom server, so an error thrown by the fleet fails `instanceof` there.
+ */
+export function isTesseraError(err: unknown): err is TesseraError {
+  return err instanceof TesseraError || (err instanceof Error && err.name === "TesseraError" && typeof (err as TesseraError).toBody === "function");
+}

@@ -423,7 +423,13 @@ export class Fleet extends EventEmitter<FleetEvents> {
     // moves just to learn, so while the belief is spread the robot follows the policy of its
     // most likely state, whose moves past walls and marks sharpen the belief.
     const unsure = c.tileMass < this.config.releaseAbove && policy.action[here] !== NO_ACTION;
-    const action = unsure ? ACTIONS[policy.action[here]] : chooseAction(runtime.plan, policy, runtime.filter.belief, { table: runtime.filter.table });
+    let action = unsure ? ACTIONS[policy.action[here]] : chooseAction(runtime.plan, policy, runtime.filter.belief, { table: runtime.filter.table, goalMass: this.config.arriveMass });
+    // Staying put repeats the same readings; after a few, turn in place to sense anew.
+    mission.stays = action === "stay" ? mission.stays + 1 : 0;
+    if (mission.stays > 2) {
+      action = "left";
+      mission.stays = 0;
+    }
     const target = likelyTile(runtime.plan, runtime.filter.table, here, ACTIONS.indexOf(action));
     const moves = target.row !== c.row || target.col !== c.col;
     if (moves) {
@@ -714,7 +720,7 @@ function seqOf(raw: unknown): number | null {
 }
 
 function newMission(id: number, goal: Tile, versionId: number, policy: MissionRuntime["policy"], step: number, holds: number): MissionRuntime {
-  return { id, goal, versionId, step, awaiting: null, lastAction: null, policy, detour: null, armed: false, lowSteps: 0, claim: null, trafficSince: null, holds, minCertainty: 1 };
+  return { id, goal, versionId, step, awaiting: null, lastAction: null, policy, detour: null, armed: false, lowSteps: 0, stays: 0, claim: null, trafficSince: null, holds, minCertainty: 1 };
 }
 
 /** Applies one stored filter event to a runtime's belief; the same code serves live, rebuild and replay. */

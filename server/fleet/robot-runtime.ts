@@ -23,6 +23,8 @@ export interface MissionRuntime {
   /** Certainty has reached the release level since the mission started (or the last help). */
   armed: boolean;
   lowSteps: number;
+  /** Consecutive `stay` actions chosen short of arrival. */
+  stays: number;
   claim: Tile | null;
   trafficSince: number | null;
   holds: number;

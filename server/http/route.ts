@@ -8,7 +8,7 @@ import type { z } from "zod";
 import { roleAllows } from "../../lib/roles";
 import type { Role } from "../../lib/vocabulary";
 import { authOptions, type SessionUser } from "../auth/options";
-import { TesseraError, zodFields } from "../errors";
+import { isTesseraError, TesseraError, zodFields } from "../errors";
 import { logger } from "../logger";
 
 export interface RouteContext<Q, B> {
@@ -30,7 +30,7 @@ interface RouteSpec<QS extends z.ZodType, BS extends z.ZodType> {
 type Handler<Q, B> = (ctx: RouteContext<Q, B>) => Promise<Response | unknown>;
 
 export function errorResponse(err: unknown, surface: string): Response {
-  if (err instanceof TesseraError) return Response.json(err.toBody(), { status: err.status });
+  if (isTesseraError(err)) return Response.json(err.toBody(), { status: err.status });
   logger.error({ err, surface }, "unhandled error in route");
   const internal = new TesseraError("internal", surface, "Something went wrong on the server; it has been logged.");
   return Response.json(internal.toBody(), { status: 500 });

@@ -9,7 +9,7 @@ import { roleAllows } from "../../lib/roles";
 import type { Role } from "../../lib/vocabulary";
 import type { SessionUser } from "../auth/options";
 import { config, publicUrl } from "../config";
-import { TesseraError, zodFields } from "../errors";
+import { isTesseraError, TesseraError, zodFields } from "../errors";
 import type { Fleet } from "../fleet/fleet";
 import { logger } from "../logger";
 import { checkOpsHandshake } from "./handshake";
@@ -74,7 +74,7 @@ export function attachOpsFeed(io: Server, fleet?: Fleet): void {
           const data = await runCommand(fleet, name, parsed.data, user);
           reply({ ok: true, data });
         } catch (err) {
-          if (err instanceof TesseraError) reply({ ok: false, error: err.toBody().error });
+          if (isTesseraError(err)) reply({ ok: false, error: err.toBody().error });
           else {
             logger.error({ err, command: name }, "ops command failed");
             reply({ ok: false, error: { code: `internal:${name}`, message: "The command failed on the server; it has been logged." } });

@@ -47,6 +47,33 @@ describe("server", () => {
     expect(await me.json()).toMatchObject({ user: { email: "admin@tessera.test", role: "admin" } });
   });
 
+  it("answers a dispatch to a blocked tile with 422 and the reason, and a viewer's with 403", async () => {
+    const signInAs = async (email: string) => {
+      const csrfRes = await fetch(`${appUrl}/api/auth/csrf`);
+      const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
+      const cookie = csrfRes.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
+      const res = await fetch(`${appUrl}/api/auth/callback/credentials`, {
+        method: "POST",
+        redirect: "manual",
+        headers: { "content-type": "application/x-www-form-urlencoded", cookie },
+        body: new URLSearchParams({ csrfToken, email, password: "demo-tessera", json: "true" }),
+      });
+      const session = res.headers.getSetCookie().find((c) => c.startsWith("next-auth.session-token="))!.split(";")[0];
+      return `${cookie}; ${session}`;
+    };
+    const dispatch = (cookie: string) =>
+      fetch(`${appUrl}/api/missions`, {
+        method: "POST",
+        headers: { "content-type": "application/json", cookie },
+        body: JSON.stringify({ robotId: "nx-kestrel", goal: { row: 0, col: 0 } }),
+      });
+    const refused = await dispatch(await signInAs("operator@tessera.test"));
+    expect(refused.status).toBe(422);
+    expect(await refused.json()).toEqual({ error: { code: "unprocessable:dispatch", message: "Goal tile (0, 0) is blocked." } });
+    const viewer = await dispatch(await signInAs("viewer@tessera.test"));
+    expect(viewer.status).toBe(403);
+  });
+
   it("refuses a registered robot presenting a wrong key with connect_error bad_key", async () => {
     const robot = await insertTestRobot(openDb(inject("databaseUrl")));
     expect(await connectError("/robot", { auth: { robot: robot.id, key: "tsk_wrong" } })).toEqual({ code: "bad_key" });
