@@ -423,7 +423,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
     // moves just to learn, so while the belief is spread the robot follows the policy of its
     // most likely state, whose moves past walls and marks sharpen the belief.
     const unsure = c.tileMass < this.config.releaseAbove && policy.action[here] !== NO_ACTION;
-    let action = unsure ? ACTIONS[policy.action[here]] : chooseAction(runtime.plan, policy, runtime.filter.belief, { table: runtime.filter.table, goalMass: this.config.arriveMass });
+    let action = unsure ? ACTIONS[policy.action[here]] : chooseAction(runtime.plan, policy, runtime.filter.belief, { table: runtime.filter.table });
     // Staying put repeats the same readings; after a few, turn in place to sense anew.
     mission.stays = action === "stay" ? mission.stays + 1 : 0;
     if (mission.stays > 2) {
