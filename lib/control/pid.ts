@@ -11,7 +11,7 @@
  * of the error (anti-windup by conditional integration).
  * References: Åström and Hägglund, "Advanced PID Control" (2006), ch. 3 (derivative on
  * measurement, anti-windup), from memory; Ziegler and Nichols (1942), ultimate-gain table
- * as given in /work/shared/design/CHECKS.md.
+ * as given in the design notes' CHECKS.md (shared/design/CHECKS.md beside this repository).
  */
 
 /** Gains in output units per error unit (kp), per error·second (ki), per error/second (kd); limits bound the output. */

@@ -1,17 +1,9 @@
 import { describe, expect, it } from "vitest";
-import type { Floorplan } from "../floorplan/types";
 import { buildTransitions, defaultMotion, type MotionModel } from "../motion";
 import { ACTIONS } from "../vocabulary";
 import { chooseAction, qmdpCosts } from "./choose-action";
 import { planPolicy } from "./plan-policy";
-
-function planFrom(lines: string[]): Floorplan {
-  const rows = lines.length;
-  const cols = lines[0].length;
-  const blocked = new Uint8Array(rows * cols);
-  lines.forEach((line, r) => [...line].forEach((ch, c) => (blocked[r * cols + c] = ch === "#" ? 1 : 0)));
-  return { rows, cols, tileM: 0.3048, blocked, mark: new Uint8Array(rows * cols), dock: new Uint8Array(rows * cols), nogo: new Uint8Array(rows * cols) };
-}
+import { planFromLines } from "../../tests/support/plans";
 
 const N = 0;
 const E = 1;
@@ -19,7 +11,7 @@ const W = 3;
 
 describe("chooseAction (QMDP) in a corridor, deterministic moves", () => {
   // One-row corridor of 7 tiles, goal at col 3; forward 1, turn 0.5, bump 5, stay = one forward step.
-  const plan = planFrom(["......."]);
+  const plan = planFromLines(["......."]);
   const model: MotionModel = { ...defaultMotion("differential"), forward: { ok: 1, stall: 0, over: 0 }, turn: { ok: 1, none: 0, reverse: 0 }, cost: { forward: 1, turn: 0.5, bump: 5 } };
   const table = buildTransitions(plan, model);
   const policy = planPolicy(plan, { row: 0, col: 3 }, model);
@@ -75,7 +67,7 @@ describe("chooseAction (QMDP) in a corridor, deterministic moves", () => {
 describe("chooseAction with unreachable states", () => {
   it("counts a walled-off peak as a large finite cost and still chooses by the reachable mass", () => {
     // Tiles (0,0)-(0,1) are walled off from the goal at (2,3).
-    const plan = planFrom(["..#.", "##..", "...."]);
+    const plan = planFromLines(["..#.", "##..", "...."]);
     const model = defaultMotion("differential");
     const table = buildTransitions(plan, model);
     const policy = planPolicy(plan, { row: 2, col: 3 }, model, { table });
@@ -93,7 +85,7 @@ describe("chooseAction with unreachable states", () => {
 
 describe("chooseAction agrees with the policy on point beliefs (default stochastic model)", () => {
   it("returns the planned action wherever that action is optimal by a clear margin", () => {
-    const plan = planFrom(["......#...", "..##......", "......##..", ".#........", "....#....."]);
+    const plan = planFromLines(["......#...", "..##......", "......##..", ".#........", "....#....."]);
     const model = defaultMotion("differential");
     const table = buildTransitions(plan, model);
     const policy = planPolicy(plan, { row: 3, col: 7 }, model, { table, epsilon: 1e-12 });

@@ -8,32 +8,7 @@ import { HEADING_STEP, NO_ACTION } from "../vocabulary";
 import { planPolicy } from "./plan-policy";
 import { costToGoal, shortestTurns } from "./shortest-turns";
 import { solveMdp } from "./solve-mdp";
-
-function planFrom(lines: string[]): Floorplan {
-  const rows = lines.length;
-  const cols = lines[0].length;
-  const blocked = new Uint8Array(rows * cols);
-  lines.forEach((line, r) => [...line].forEach((ch, c) => (blocked[r * cols + c] = ch === "#" ? 1 : 0)));
-  return { rows, cols, tileM: 0.3048, blocked, mark: new Uint8Array(rows * cols), dock: new Uint8Array(rows * cols), nogo: new Uint8Array(rows * cols) };
-}
-
-function randomPlan(seed: number, rows: number, cols: number, density: number): Floorplan {
-  let a = seed >>> 0;
-  const random = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const lines: string[] = [];
-  for (let r = 0; r < rows; r++) {
-    let line = "";
-    for (let c = 0; c < cols; c++) line += random() < density ? "#" : ".";
-    lines.push(line);
-  }
-  return planFrom(lines);
-}
+import { planFromLines, randomPlan } from "../../tests/support/plans";
 
 /** The motion model with every commanded move succeeding (the deterministic case). */
 function exact(drive: "differential" | "bicycle", cost: MotionModel["cost"]): MotionModel {
@@ -197,7 +172,7 @@ describe("planPolicy properties (fast-check)", () => {
   });
 
   it("gives −1 / NO_ACTION everywhere for a blocked, walled-off or off-plan goal", () => {
-    const plan = planFrom(["..#.", "..#.", "###.", "...."]);
+    const plan = planFromLines(["..#.", "..#.", "###.", "...."]);
     const walledOff = planPolicy(plan, { row: 0, col: 0 });
     for (let s = 0; s < 64; s++) {
       const tile = s >> 2;
@@ -210,7 +185,7 @@ describe("planPolicy properties (fast-check)", () => {
       expect(policy.value.every((v) => v === -1)).toBe(true);
       expect(policy.action.every((a) => a === NO_ACTION)).toBe(true);
     }
-    const nogo = planFrom(["....", "...."]);
+    const nogo = planFromLines(["....", "...."]);
     nogo.nogo[5] = 1;
     expect(planPolicy(nogo, { row: 1, col: 1 }).value.every((v) => v === -1)).toBe(true);
   });
@@ -280,7 +255,7 @@ describe("planPolicy with a bicycle", () => {
   it("marks headings that can never turn back in a one-tile corridor as unreachable", () => {
     // A bicycle cannot turn in place and its arcs need side tiles, so in a 1×6 corridor it can only
     // drive straight: facing the goal (west) it is reachable, facing east, north or south it is not.
-    const plan = planFrom(["......"]);
+    const plan = planFromLines(["......"]);
     const model = exact("bicycle", { forward: 1, turn: 1.6, bump: 5 });
     const policy = planPolicy(plan, { row: 0, col: 0 }, model);
     for (let c = 1; c < 6; c++) {
@@ -295,7 +270,7 @@ describe("planPolicy with a bicycle", () => {
 
   it("uses arcs: a right arc from (2,0) facing north lands on (1,1) facing east", () => {
     // Bicycle turn.ok = one tile ahead and one to the side, heading turned 90° (lib/motion model header).
-    const plan = planFrom(["...", "...", "..."]);
+    const plan = planFromLines(["...", "...", "..."]);
     const model = exact("bicycle", { forward: 1, turn: 1.6, bump: 5 });
     const policy = planPolicy(plan, { row: 1, col: 1 }, model);
     expect(policy.value[(2 * 3 + 0) * 4 + 0]).toBeCloseTo(1.6, 12);
@@ -312,7 +287,7 @@ describe("planPolicy dead ends", () => {
     // Plan (row 0 at the top):  . . .   goal (0,0). From (1,1) facing N: forward reaches (0,1) facing the
     //                           . . #   outer wall, a dead end; the right arc ends on (0,2) facing the wall,
     //                           # . #   another; the left arc lands on the goal, or with 0.25 runs on to (0,1).
-    const plan = planFrom(["...", "..#", "#.#"]);
+    const plan = planFromLines(["...", "..#", "#.#"]);
     const model: MotionModel = { ...defaultMotion("bicycle"), forward: { ok: 1, stall: 0, over: 0 }, turn: { ok: 0.75, none: 0, reverse: 0.25 }, cost: { forward: 1, turn: 1.6, bump: 5 } };
     const policy = planPolicy(plan, { row: 0, col: 0 }, model, { deadEndCost: 40, epsilon: 1e-12 });
     const northAt = (r: number, c: number) => (r * 3 + c) * 4;
@@ -342,9 +317,9 @@ describe("planPolicy options", () => {
   });
 
   it("rejects a non-integer goal and a table of another plan (programmer error)", () => {
-    const plan = planFrom(["...", "..."]);
+    const plan = planFromLines(["...", "..."]);
     expect(() => planPolicy(plan, { row: 0.5, col: 1 })).toThrow(RangeError);
-    const other = buildTransitions(planFrom(["..", ".."]), defaultMotion("differential"));
+    const other = buildTransitions(planFromLines(["..", ".."]), defaultMotion("differential"));
     expect(() => planPolicy(plan, { row: 0, col: 1 }, defaultMotion("differential"), { table: other })).toThrow(RangeError);
   });
 });

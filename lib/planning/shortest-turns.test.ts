@@ -4,34 +4,7 @@ import { describe, expect, it } from "vitest";
 import type { Floorplan } from "../floorplan/types";
 import { HEADING_STEP, type Action } from "../vocabulary";
 import { costToGoal, shortestTurns } from "./shortest-turns";
-
-/** '#' blocked, '.' free; row 0 first. */
-function planFrom(lines: string[]): Floorplan {
-  const rows = lines.length;
-  const cols = lines[0].length;
-  const blocked = new Uint8Array(rows * cols);
-  lines.forEach((line, r) => [...line].forEach((ch, c) => (blocked[r * cols + c] = ch === "#" ? 1 : 0)));
-  return { rows, cols, tileM: 0.3048, blocked, mark: new Uint8Array(rows * cols), dock: new Uint8Array(rows * cols), nogo: new Uint8Array(rows * cols) };
-}
-
-/** Seeded plan with roughly `density` of its tiles blocked (mulberry32 generator). */
-function randomPlan(seed: number, rows: number, cols: number, density: number): Floorplan {
-  let a = seed >>> 0;
-  const random = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const lines: string[] = [];
-  for (let r = 0; r < rows; r++) {
-    let line = "";
-    for (let c = 0; c < cols; c++) line += random() < density ? "#" : ".";
-    lines.push(line);
-  }
-  return planFrom(lines);
-}
+import { planFromLines, randomPlan } from "../../tests/support/plans";
 
 /** The (tile, heading) graph built independently with ngraph: forward one free tile, quarter turns in place. */
 function referenceGraph(plan: Floorplan, goal: { row: number; col: number }, cost: { forward: number; turn: number }) {
@@ -89,7 +62,7 @@ describe("shortestTurns on a hand-made plan", () => {
   // . . . .
   // . # # .
   // . . . #      from (2,0) facing N to goal (0,3): up two, turn right, three forward = 2 + 0.5 + 3.
-  const plan = planFrom(["....", ".##.", "...#"]);
+  const plan = planFromLines(["....", ".##.", "...#"]);
   const cost = { forward: 1, turn: 0.5 };
 
   it("finds the cheapest action sequence", () => {
@@ -108,7 +81,7 @@ describe("shortestTurns on a hand-made plan", () => {
     expect(shortestTurns(plan, { row: 0, col: 3, heading: "S" }, { row: 0, col: 3 }, cost)).toEqual({ cost: 0, actions: [] });
     expect(shortestTurns(plan, { row: 1, col: 1, heading: "N" }, { row: 0, col: 3 }, cost)).toBeNull();
     expect(shortestTurns(plan, { row: 0, col: 0, heading: "N" }, { row: 2, col: 3 }, cost)).toBeNull();
-    const walled = planFrom([".#..", "##..", "...."]);
+    const walled = planFromLines([".#..", "##..", "...."]);
     expect(shortestTurns(walled, { row: 0, col: 0, heading: "E" }, { row: 2, col: 3 }, cost)).toBeNull();
   });
 
@@ -120,7 +93,7 @@ describe("shortestTurns on a hand-made plan", () => {
 
 describe("costToGoal", () => {
   it("marks blocked and walled-off states −1 and never returns Infinity", () => {
-    const walled = planFrom([".#..", "##..", "...."]);
+    const walled = planFromLines([".#..", "##..", "...."]);
     const value = costToGoal(walled, { row: 2, col: 3 }, { forward: 1, turn: 0.5 });
     expect(value.every((v) => Number.isFinite(v))).toBe(true);
     for (let h = 0; h < 4; h++) {

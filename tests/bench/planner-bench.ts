@@ -8,18 +8,12 @@
 import { buildTransitions, defaultMotion, type MotionModel } from "../../lib/motion";
 import { costToGoal, planPolicy, shortestTurns } from "../../lib/planning";
 import type { Floorplan } from "../../lib/floorplan/types";
+import { seededUniform } from "../support/plans";
 
 const RUNS = 7;
 
 function seededPlan(side: number, density: number, seed: number): { plan: Floorplan; goal: { row: number; col: number } } {
-  let a = seed >>> 0;
-  const random = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const random = seededUniform(seed);
   const n = side * side;
   const blocked = new Uint8Array(n);
   for (let i = 0; i < n; i++) blocked[i] = random() < density ? 1 : 0;
