@@ -63,6 +63,35 @@ function actionValue(mdp: Mdp, value: Float64Array, discount: number, s: number,
   return q;
 }
 
+/**
+ * In-place (Gauss–Seidel) sweeps over the non-terminal states: `backup(s)` gives the new value of s
+ * (null keeps it), until no value changes by epsilon or maxSweeps is reached.
+ */
+function sweepUntilStill(
+  value: Float64Array,
+  isTerminal: Uint8Array,
+  maxSweeps: number,
+  epsilon: number,
+  backup: (s: number) => number | null,
+): { sweeps: number; converged: boolean } {
+  let sweeps = 0;
+  let converged = false;
+  while (sweeps < maxSweeps && !converged) {
+    let change = 0;
+    for (let s = 0; s < value.length; s++) {
+      if (isTerminal[s]) continue;
+      const next = backup(s);
+      if (next === null) continue;
+      const delta = Math.abs(next - value[s]);
+      if (delta > change) change = delta;
+      value[s] = next;
+    }
+    sweeps++;
+    converged = change < epsilon;
+  }
+  return { sweeps, converged };
+}
+
 /** Value iteration maximising expected total discounted reward; see the module header for the stop rule. */
 export function solveMdp(mdp: Mdp, opts: SolveOptions): MdpSolution {
   const maxSweeps = checkOptions(mdp, opts);
@@ -72,25 +101,14 @@ export function solveMdp(mdp: Mdp, opts: SolveOptions): MdpSolution {
   const isTerminal = new Uint8Array(states);
   for (let s = 0; s < states; s++) isTerminal[s] = mdp.terminal?.(s) ? 1 : 0;
 
-  let sweeps = 0;
-  let converged = false;
-  while (sweeps < maxSweeps && !converged) {
-    let change = 0;
-    for (let s = 0; s < states; s++) {
-      if (isTerminal[s]) continue;
-      let best = -Infinity;
-      for (let a = 0; a < actions; a++) {
-        const q = actionValue(mdp, value, opts.discount, s, a);
-        if (q !== null && q > best) best = q;
-      }
-      if (best === -Infinity) continue;
-      const delta = Math.abs(best - value[s]);
-      if (delta > change) change = delta;
-      value[s] = best;
+  const { sweeps, converged } = sweepUntilStill(value, isTerminal, maxSweeps, opts.epsilon, (s) => {
+    let best = -Infinity;
+    for (let a = 0; a < actions; a++) {
+      const q = actionValue(mdp, value, opts.discount, s, a);
+      if (q !== null && q > best) best = q;
     }
-    sweeps++;
-    converged = change < opts.epsilon;
-  }
+    return best === -Infinity ? null : best;
+  });
 
   for (let s = 0; s < states; s++) {
     if (isTerminal[s]) continue;
@@ -121,26 +139,16 @@ export function evaluatePolicy(
   const isTerminal = new Uint8Array(states);
   for (let s = 0; s < states; s++) isTerminal[s] = mdp.terminal?.(s) ? 1 : 0;
 
-  let sweeps = 0;
-  let converged = false;
-  while (sweeps < maxSweeps && !converged) {
-    let change = 0;
-    for (let s = 0; s < states; s++) {
-      if (isTerminal[s]) continue;
-      let v = 0;
-      for (let a = 0; a < actions; a++) {
-        const weight = probability(s, a);
-        if (weight === 0) continue;
-        const q = actionValue(mdp, value, opts.discount, s, a);
-        if (q === null) throw new RangeError(`evaluatePolicy: policy gives weight to unavailable action ${a} in state ${s}`);
-        v += weight * q;
-      }
-      const delta = Math.abs(v - value[s]);
-      if (delta > change) change = delta;
-      value[s] = v;
+  const { sweeps, converged } = sweepUntilStill(value, isTerminal, maxSweeps, opts.epsilon, (s) => {
+    let v = 0;
+    for (let a = 0; a < actions; a++) {
+      const weight = probability(s, a);
+      if (weight === 0) continue;
+      const q = actionValue(mdp, value, opts.discount, s, a);
+      if (q === null) throw new RangeError(`evaluatePolicy: policy gives weight to unavailable action ${a} in state ${s}`);
+      v += weight * q;
     }
-    sweeps++;
-    converged = change < opts.epsilon;
-  }
+    return v;
+  });
   return { value, sweeps, converged };
 }
