@@ -23,7 +23,7 @@ export const DEMO_FLOORPLAN_NAME = "North Annex lab";
 export const DEMO_FLOORPLAN_FILE = new URL("./seed-data/demo-lab.txt", import.meta.url);
 
 /** Front, left and right ultrasonic rangers (3 m) and a downward floor-mark sensor. */
-const DEMO_SENSORS: SensorSpec[] = [
+export const DEMO_SENSORS: SensorSpec[] = [
   { id: "us-front", kind: "range", bearingDeg: 0, maxRangeM: 3 },
   { id: "us-left", kind: "range", bearingDeg: 90, maxRangeM: 3 },
   { id: "us-right", kind: "range", bearingDeg: -90, maxRangeM: 3 },

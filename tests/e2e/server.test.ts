@@ -10,6 +10,21 @@ afterAll(async () => {
   await closeDb();
 });
 
+/** Signs in through next-auth's own endpoints as a script would; the Cookie header of the session. */
+async function signInAs(email: string): Promise<string> {
+  const csrfRes = await fetch(`${appUrl}/api/auth/csrf`);
+  const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
+  const cookie = csrfRes.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
+  const res = await fetch(`${appUrl}/api/auth/callback/credentials`, {
+    method: "POST",
+    redirect: "manual",
+    headers: { "content-type": "application/x-www-form-urlencoded", cookie },
+    body: new URLSearchParams({ csrfToken, email, password: "demo-tessera", json: "true" }),
+  });
+  const session = res.headers.getSetCookie().find((c) => c.startsWith("next-auth.session-token="));
+  return session ? `${cookie}; ${session.split(";")[0]}` : cookie;
+}
+
 function connectError(namespace: string, opts: { auth?: Record<string, unknown>; extraHeaders?: Record<string, string> }): Promise<unknown> {
   return new Promise((resolve) => {
     const socket = connect(`${appUrl}${namespace}`, { ...opts, reconnection: false, transports: ["websocket"] });
@@ -32,35 +47,13 @@ describe("server", () => {
   });
 
   it("signs a script in through next-auth's csrf and credentials endpoints", async () => {
-    const csrfRes = await fetch(`${appUrl}/api/auth/csrf`);
-    const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
-    const cookie = csrfRes.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
-    const signIn = await fetch(`${appUrl}/api/auth/callback/credentials`, {
-      method: "POST",
-      redirect: "manual",
-      headers: { "content-type": "application/x-www-form-urlencoded", cookie },
-      body: new URLSearchParams({ csrfToken, email: "admin@tessera.test", password: "demo-tessera", json: "true" }),
-    });
-    const session = signIn.headers.getSetCookie().find((c) => c.startsWith("next-auth.session-token="));
-    expect(session).toBeDefined();
-    const me = await fetch(`${appUrl}/api/auth/session`, { headers: { cookie: `${cookie}; ${session?.split(";")[0]}` } });
+    const cookie = await signInAs("admin@tessera.test");
+    expect(cookie).toMatch(/next-auth\.session-token=/);
+    const me = await fetch(`${appUrl}/api/auth/session`, { headers: { cookie } });
     expect(await me.json()).toMatchObject({ user: { email: "admin@tessera.test", role: "admin" } });
   });
 
   it("answers a dispatch to a blocked tile with 422 and the reason, and a viewer's with 403", async () => {
-    const signInAs = async (email: string) => {
-      const csrfRes = await fetch(`${appUrl}/api/auth/csrf`);
-      const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
-      const cookie = csrfRes.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
-      const res = await fetch(`${appUrl}/api/auth/callback/credentials`, {
-        method: "POST",
-        redirect: "manual",
-        headers: { "content-type": "application/x-www-form-urlencoded", cookie },
-        body: new URLSearchParams({ csrfToken, email, password: "demo-tessera", json: "true" }),
-      });
-      const session = res.headers.getSetCookie().find((c) => c.startsWith("next-auth.session-token="))!.split(";")[0];
-      return `${cookie}; ${session}`;
-    };
     const dispatch = (cookie: string) =>
       fetch(`${appUrl}/api/missions`, {
         method: "POST",

@@ -6,7 +6,7 @@ import { eq } from "drizzle-orm";
 import { afterAll, describe, expect, inject, it } from "vitest";
 import { missions } from "../../db/schema";
 import type { ServerMessage } from "../../lib/protocol";
-import { connectRobot, helloPayload, startTestServer, type TestServer } from "../support/fleet-server";
+import { connectRobot, helloPayload, scriptedRobot, startTestServer, type TestServer } from "../support/fleet-server";
 
 let server: TestServer | undefined;
 
@@ -18,12 +18,8 @@ describe("server restart", () => {
   it("rebuilds the same belief and resumes the mission", async () => {
     const url = inject("databaseUrl");
     server = await startTestServer(url, { snapshotEvery: 3 });
-    const robot = await server.addRobot({ simulated: true });
-    const socket = await connectRobot(server.url, { robot: robot.id, key: robot.key });
-    let seq = 1;
-    await socket.call("hello", helloPayload(seq));
-    const nexts: ServerMessage["next"][] = [];
-    socket.on("next", (m: ServerMessage["next"]) => nexts.push(m));
+    const scripted = await scriptedRobot(server);
+    const { robot, socket } = scripted;
     // Idle sensing before the mission; the readings stay fixed, only replay exactness matters here.
     const readings = [
       { sensor: "us-front", rangeM: 3 },
@@ -31,15 +27,11 @@ describe("server restart", () => {
       { sensor: "us-right", rangeM: 0.15 },
       { sensor: "floor", mark: 0 },
     ];
-    for (let i = 0; i < 3; i++) await socket.call("sensed", { seq: ++seq, at: Date.now(), readings });
+    for (let i = 0; i < 3; i++) await socket.call("sensed", { seq: scripted.nextSeq(), at: Date.now(), readings });
     await server.fleet.relocate(robot.id, { row: 10, col: 12, heading: "W" }, { userId: null, label: "test" });
     const mission = await server.fleet.dispatch(robot.id, { row: 10, col: 4 }, { userId: null, label: "test" });
     for (let step = 0; step < 4; step++) {
-      await expect.poll(() => nexts.length).toBeGreaterThan(step);
-      const next = nexts[step];
-      expect(next).toMatchObject({ mission: mission.id, step: step + 1 });
-      await socket.call("moved", { seq: ++seq, at: Date.now(), action: next.action });
-      await socket.call("sensed", { seq: ++seq, at: Date.now(), readings });
+      expect(await scripted.step(readings)).toMatchObject({ mission: mission.id, step: step + 1 });
     }
     const before = Float64Array.from(server.fleet.robots.get(robot.id)!.filter.belief);
     const stepsBefore = server.fleet.robots.get(robot.id)!.mission!.step;
@@ -51,6 +43,7 @@ describe("server restart", () => {
     let worst = 0;
     for (let i = 0; i < before.length; i++) worst = Math.max(worst, Math.abs(rebuilt.filter.belief[i] - before[i]));
     expect(worst).toBeLessThan(1e-12);
+    let seq = scripted.lastSeq();
     expect(rebuilt.lastSeq).toBe(seq);
     expect(rebuilt.mission).toMatchObject({ id: mission.id, goal: { row: 10, col: 4 }, step: stepsBefore });
 

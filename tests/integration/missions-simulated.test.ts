@@ -7,8 +7,7 @@ import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { DEMO_FLOORPLAN_FILE } from "../../db/seed";
 import { parseFloorplan } from "../../lib/floorplan";
 import { startFleet } from "../../simulators/fleet-runner";
-import type { ServerMessage } from "../../lib/protocol";
-import { connectRobot, helloPayload, startTestServer, TEST_SENSORS, type TestServer } from "../support/fleet-server";
+import { scriptedRobot, startTestServer, TEST_SENSORS, type TestServer } from "../support/fleet-server";
 
 const plan = parseFloorplan(readFileSync(DEMO_FLOORPLAN_FILE, "utf8"));
 const actor = { userId: null, label: "test" };
@@ -57,12 +56,8 @@ describe("simulated missions", { timeout: 120_000 }, () => {
   it("holds a robot whose readings stop matching its belief, and releases it on a re-locate", async () => {
     // A scripted robot, so the drop in certainty is repeatable: from its first step it reports
     // the readings of a closet it is not in, as a kidnapped robot would.
-    const robot = await server.addRobot({ simulated: true });
-    const socket = await connectRobot(server.url, { robot: robot.id, key: robot.key });
-    let seq = 1;
-    await socket.call("hello", helloPayload(seq));
-    const nexts: ServerMessage["next"][] = [];
-    socket.on("next", (m: ServerMessage["next"]) => nexts.push(m));
+    const scripted = await scriptedRobot(server);
+    const { robot } = scripted;
     const runtime = () => server.fleet.robots.get(robot.id)!;
     await server.fleet.relocate(robot.id, { row: 10, col: 20, heading: "W" }, actor);
     await server.fleet.dispatch(robot.id, { row: 10, col: 2 }, actor);
@@ -72,16 +67,12 @@ describe("simulated missions", { timeout: 120_000 }, () => {
       { sensor: "us-right", rangeM: 0.15 },
       { sensor: "floor", mark: 4 },
     ];
-    for (let step = 0; step < 12 && runtime().hold === null; step++) {
-      await expect.poll(() => nexts.length).toBeGreaterThan(step);
-      await socket.call("moved", { seq: ++seq, at: Date.now(), action: nexts[step].action });
-      await socket.call("sensed", { seq: ++seq, at: Date.now(), readings: closet });
-    }
+    for (let step = 0; step < 12 && runtime().hold === null; step++) await scripted.step(closet);
     expect(runtime().hold).toBe("low_certainty");
     expect(runtime().certainty().tileMass).toBeLessThan(0.3);
     await server.fleet.relocate(robot.id, { row: 10, col: 19, heading: "W" }, actor);
     expect(runtime().hold).toBeNull();
     expect(runtime().certainty()).toMatchObject({ row: 10, col: 19, tileMass: 1 });
-    socket.close();
+    scripted.socket.close();
   });
 });

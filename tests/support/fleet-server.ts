@@ -10,18 +10,16 @@ import { io as connect, type Socket as ClientSocket } from "socket.io-client";
 import { closeDb, openDb, type Db } from "../../db/client";
 import { generateRobotKey, hashRobotKey } from "../../db/robot-keys";
 import { robots } from "../../db/schema";
-import type { Ack } from "../../lib/protocol";
+import { DEMO_SENSORS } from "../../db/seed";
+import type { Ack, ServerMessage } from "../../lib/protocol";
+import { expect } from "vitest";
 import type { SensorSpec } from "../../lib/sensing";
 import { fleetConfig, type FleetConfig } from "../../server/config";
 import { Fleet } from "../../server/fleet/fleet";
 import { attachRobotLink } from "../../server/robot-link";
 
-export const TEST_SENSORS: SensorSpec[] = [
-  { id: "us-front", kind: "range", bearingDeg: 0, maxRangeM: 3 },
-  { id: "us-left", kind: "range", bearingDeg: 90, maxRangeM: 3 },
-  { id: "us-right", kind: "range", bearingDeg: -90, maxRangeM: 3 },
-  { id: "floor", kind: "floor" },
-];
+/** The demo robots' sensor set: front, left and right rangers and a floor sensor. */
+export const TEST_SENSORS: SensorSpec[] = DEMO_SENSORS;
 
 export interface TestServer {
   url: string;
@@ -80,6 +78,37 @@ export async function connectRobot(url: string, auth: { robot: string; key: stri
   return Object.assign(socket, {
     call: (event: string, payload: unknown) => socket.timeout(5000).emitWithAck(event, payload) as Promise<Ack>,
   });
+}
+
+/**
+ * A robot driven by the test itself over the real link: it answers each `next` only when the
+ * test calls `step`, with the readings the test chooses, so a run repeats exactly.
+ */
+export async function scriptedRobot(server: TestServer) {
+  const robot = await server.addRobot({ simulated: true });
+  const socket = await connectRobot(server.url, { robot: robot.id, key: robot.key });
+  let seq = 1;
+  await socket.call("hello", helloPayload(seq));
+  const nexts: ServerMessage["next"][] = [];
+  socket.on("next", (m: ServerMessage["next"]) => nexts.push(m));
+  let answered = 0;
+  return {
+    robot,
+    socket,
+    nexts,
+    /** The next seq this robot sends. */
+    nextSeq: () => ++seq,
+    /** The last seq this robot sent. */
+    lastSeq: () => seq,
+    /** Waits for the first `next` not yet answered, then reports it carried out and what it sensed. */
+    async step(readings: unknown[]): Promise<ServerMessage["next"]> {
+      await expect.poll(() => nexts.length).toBeGreaterThan(answered);
+      const next = nexts[answered++];
+      await socket.call("moved", { seq: ++seq, at: Date.now(), action: next.action });
+      await socket.call("sensed", { seq: ++seq, at: Date.now(), readings });
+      return next;
+    },
+  };
 }
 
 export function helloPayload(seq: number) {
