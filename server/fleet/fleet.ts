@@ -112,7 +112,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
     const runtime = new RobotRuntime(row.id, row.name, row.simulated, row.drive, floorplanId, versionId, plan, row.sensors as SensorSpec[], settings);
     const usable = snapshot && snapshot.versionId === versionId;
     if (usable) {
-      runtime.filter.reset(new Float64Array(snapshot.belief.buffer.slice(snapshot.belief.byteOffset, snapshot.belief.byteOffset + snapshot.belief.byteLength)));
+      runtime.reset(new Float64Array(snapshot.belief.buffer.slice(snapshot.belief.byteOffset, snapshot.belief.byteOffset + snapshot.belief.byteLength)));
       runtime.lastFilterEvent = snapshot.eventId;
     }
     const after = usable ? snapshot.eventId : 0;
@@ -305,14 +305,14 @@ export class Fleet extends EventEmitter<FleetEvents> {
       }
       case "moved": {
         const moved = msg as Moved;
-        runtime.filter.motion(moved.action);
+        runtime.move(moved.action);
         runtime.lastFilterEvent = queued;
         if (runtime.mission) runtime.mission.awaiting = "sensed";
         break;
       }
       case "sensed": {
         const sensed = msg as Sensed;
-        const outcome = runtime.filter.sense(sensed.readings as SensorReading[]);
+        const outcome = runtime.sense(sensed.readings as SensorReading[]);
         if (outcome.fellBack) logger.info({ robot: runtime.id, seq: msg.seq }, "no state explains these readings; fell back to the mixing floor");
         runtime.lastFilterEvent = queued;
         runtime.sinceSnapshot += 1;
@@ -723,12 +723,20 @@ function newMission(id: number, goal: Tile, versionId: number, policy: MissionRu
   return { id, goal, versionId, step, awaiting: null, lastAction: null, policy, detour: null, armed: false, lowSteps: 0, stays: 0, claim: null, trafficSince: null, holds, minCertainty: 1 };
 }
 
-/** Applies one stored filter event to a runtime's belief; the same code serves live, rebuild and replay. */
-export function applyToFilter(runtime: { filter: RobotRuntime["filter"]; plan: Floorplan }, kind: string, payload: Record<string, unknown>): void {
-  if (kind === "moved") runtime.filter.motion(payload.action as (typeof ACTIONS)[number]);
-  else if (kind === "sensed") runtime.filter.sense(payload.readings as SensorReading[]);
+/** What a stored filter event acts on: a robot runtime, or a bare filter with its plan (replay). */
+export interface FilterTarget {
+  plan: Floorplan;
+  move(action: (typeof ACTIONS)[number]): void;
+  sense(readings: readonly SensorReading[]): unknown;
+  reset(belief?: ArrayLike<number>): void;
+}
+
+/** Applies one stored filter event to a belief; the same code serves live, rebuild and replay. */
+export function applyToFilter(target: FilterTarget, kind: string, payload: Record<string, unknown>): void {
+  if (kind === "moved") target.move(payload.action as (typeof ACTIONS)[number]);
+  else if (kind === "sensed") target.sense(payload.readings as SensorReading[]);
   else if (kind === "relocate") {
     const heading = typeof payload.heading === "string" ? (payload.heading as Heading) : undefined;
-    runtime.filter.reset(poseBelief(runtime.plan, { row: Number(payload.row), col: Number(payload.col), heading }, 0));
+    target.reset(poseBelief(target.plan, { row: Number(payload.row), col: Number(payload.col), heading }, 0));
   }
 }

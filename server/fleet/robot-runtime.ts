@@ -4,7 +4,7 @@ import { certainty, createFilter, type Certainty, type Filter } from "../../lib/
 import type { Floorplan, Tile } from "../../lib/floorplan";
 import { defaultMotion, type MotionModel } from "../../lib/motion";
 import type { Policy } from "../../lib/planning";
-import { defaultSensorModel, type SensorModel, type SensorSpec } from "../../lib/sensing";
+import { defaultSensorModel, type SenseOutcome, type SensorModel, type SensorReading, type SensorSpec } from "../../lib/sensing";
 import type { Action, Drive, HoldReason, MissionOutcome } from "../../lib/vocabulary";
 import type { QueuedEvent } from "./writer";
 
@@ -61,6 +61,8 @@ export class RobotRuntime {
   chain: Promise<void> = Promise.resolve();
   resumeAt: number | null = null;
   filter: Filter;
+  /** Certainty of the current belief, computed once per belief change (frames and traffic checks read it often). */
+  private certaintyCache: Certainty | null = null;
   readonly motion: MotionModel;
   readonly sensorModel: SensorModel;
 
@@ -86,10 +88,30 @@ export class RobotRuntime {
     this.sensors = sensors;
     this.filter = createFilter(this.plan, this.motion, sensors, this.sensorModel, { table: this.filter.table });
     this.filter.reset(belief);
+    this.certaintyCache = null;
+  }
+
+  /** Prediction step of the filter for one tile action. */
+  move(action: Action): void {
+    this.filter.motion(action);
+    this.certaintyCache = null;
+  }
+
+  /** Correction step of the filter for one message's readings. */
+  sense(readings: readonly SensorReading[]): SenseOutcome {
+    const outcome = this.filter.sense(readings);
+    this.certaintyCache = null;
+    return outcome;
+  }
+
+  /** Replaces the belief (uniform when omitted). */
+  reset(belief?: ArrayLike<number>): void {
+    this.filter.reset(belief);
+    this.certaintyCache = null;
   }
 
   certainty(): Certainty {
-    return certainty(this.plan, this.filter.belief);
+    return (this.certaintyCache ??= certainty(this.plan, this.filter.belief));
   }
 
   /** Belief mass on one tile over all headings. */
