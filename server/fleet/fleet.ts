@@ -480,14 +480,19 @@ export class Fleet extends EventEmitter<FleetEvents> {
       this.publish(runtime);
       return;
     }
-    if (mission.trafficSince !== null && now - mission.trafficSince >= this.config.trafficReplanMs && !mission.detour) {
-      const plan: Floorplan = { ...runtime.plan, blocked: Uint8Array.from(runtime.plan.blocked) };
-      plan.blocked[tile.row * plan.cols + tile.col] = 1;
-      void this.alert(runtime, "traffic", `${runtime.name} waited ${Math.round((now - mission.trafficSince) / 1000)} s for ${blocker.name}; re-planning around tile (${tile.row}, ${tile.col})`);
-      void this.policies.solveTransient(plan, mission.goal, runtime.motion).then((detour) => {
-        if (runtime.mission === mission) mission.detour = detour;
-      });
-    }
+    if (mission.trafficSince === null || now - mission.trafficSince < this.config.trafficReplanMs) return;
+    // Two robots waiting on each other would both detour the same way and meet again:
+    // only the one with the larger id gives way; a robot blocked by a parked one always does.
+    const mutual = blocker.hold === "traffic" && blocker.mission !== null;
+    if (mutual && runtime.id < blocker.id) return;
+    const waitedS = Math.round((now - mission.trafficSince) / 1000);
+    mission.trafficSince = now;
+    const plan: Floorplan = { ...runtime.plan, blocked: Uint8Array.from(runtime.plan.blocked) };
+    plan.blocked[tile.row * plan.cols + tile.col] = 1;
+    void this.alert(runtime, "traffic", `${runtime.name} waited ${waitedS} s for ${blocker.name}; re-planning around tile (${tile.row}, ${tile.col})`);
+    void this.policies.solveTransient(plan, mission.goal, runtime.motion).then((detour) => {
+      if (runtime.mission === mission) mission.detour = detour;
+    });
   }
 
   private placeHold(runtime: RobotRuntime, reason: HoldReason, why: string): void {

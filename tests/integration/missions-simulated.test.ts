@@ -4,6 +4,8 @@
  */
 import { readFileSync } from "node:fs";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { inArray } from "drizzle-orm";
+import { missions } from "../../db/schema";
 import { DEMO_FLOORPLAN_FILE } from "../../db/seed";
 import { parseFloorplan } from "../../lib/floorplan";
 import { startFleet } from "../../simulators/fleet-runner";
@@ -74,5 +76,31 @@ describe("simulated missions", { timeout: 120_000 }, () => {
     expect(runtime().hold).toBeNull();
     expect(runtime().certainty()).toMatchObject({ row: 10, col: 19, tileMass: 1 });
     scripted.socket.close();
+  });
+  it("lets two robots cross in the corridor without ever standing on the same tile", async () => {
+    // Head-on in the two-tile-wide corridor: the traffic rule makes one wait and the other go round.
+    const west = await simulated({ row: 10, col: 6, heading: "E" }, 21);
+    const east = await simulated({ row: 10, col: 14, heading: "W" }, 22);
+    const shared: string[] = [];
+    const watch = setInterval(() => {
+      const a = west.runtime().lastTruth;
+      const b = east.runtime().lastTruth;
+      if (a && b && a.row === b.row && a.col === b.col) shared.push(`(${a.row}, ${a.col})`);
+    }, 5);
+    try {
+      await server.fleet.relocate(west.robot.id, { row: 10, col: 6, heading: "E" }, actor);
+      await server.fleet.relocate(east.robot.id, { row: 10, col: 14, heading: "W" }, actor);
+      await server.fleet.dispatch(west.robot.id, { row: 10, col: 16 }, actor);
+      await server.fleet.dispatch(east.robot.id, { row: 10, col: 4 }, actor);
+      await expect.poll(() => [west.runtime().lastOutcome?.outcome, east.runtime().lastOutcome?.outcome], { timeout: 90_000, interval: 200 }).toEqual(["reached", "reached"]);
+      expect(shared).toEqual([]);
+      // The rule was put to work, not dodged: at least one of them waited for the other.
+      const rows = await server.db.select({ holds: missions.holds }).from(missions).where(inArray(missions.robotId, [west.robot.id, east.robot.id]));
+      expect(rows.reduce((n, r) => n + r.holds, 0)).toBeGreaterThan(0);
+    } finally {
+      clearInterval(watch);
+      await west.fleet.stop();
+      await east.fleet.stop();
+    }
   });
 });
