@@ -3,27 +3,13 @@ import { io as connect } from "socket.io-client";
 import { afterAll, describe, expect, inject, it } from "vitest";
 import { closeDb, openDb } from "../../db/client";
 import { insertTestRobot } from "../support/robot-fixtures";
+import { signInAs } from "../support/session";
 
 const appUrl = inject("appUrl");
 
 afterAll(async () => {
   await closeDb();
 });
-
-/** Signs in through next-auth's own endpoints as a script would; the Cookie header of the session. */
-async function signInAs(email: string): Promise<string> {
-  const csrfRes = await fetch(`${appUrl}/api/auth/csrf`);
-  const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
-  const cookie = csrfRes.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
-  const res = await fetch(`${appUrl}/api/auth/callback/credentials`, {
-    method: "POST",
-    redirect: "manual",
-    headers: { "content-type": "application/x-www-form-urlencoded", cookie },
-    body: new URLSearchParams({ csrfToken, email, password: "demo-tessera", json: "true" }),
-  });
-  const session = res.headers.getSetCookie().find((c) => c.startsWith("next-auth.session-token="));
-  return session ? `${cookie}; ${session.split(";")[0]}` : cookie;
-}
 
 function connectError(namespace: string, opts: { auth?: Record<string, unknown>; extraHeaders?: Record<string, string> }): Promise<unknown> {
   return new Promise((resolve) => {
@@ -47,7 +33,7 @@ describe("server", () => {
   });
 
   it("signs a script in through next-auth's csrf and credentials endpoints", async () => {
-    const cookie = await signInAs("admin@tessera.test");
+    const cookie = await signInAs(appUrl, "admin@tessera.test");
     expect(cookie).toMatch(/next-auth\.session-token=/);
     const me = await fetch(`${appUrl}/api/auth/session`, { headers: { cookie } });
     expect(await me.json()).toMatchObject({ user: { email: "admin@tessera.test", role: "admin" } });
@@ -60,10 +46,10 @@ describe("server", () => {
         headers: { "content-type": "application/json", cookie },
         body: JSON.stringify({ robotId: "nx-kestrel", goal: { row: 0, col: 0 } }),
       });
-    const refused = await dispatch(await signInAs("operator@tessera.test"));
+    const refused = await dispatch(await signInAs(appUrl, "operator@tessera.test"));
     expect(refused.status).toBe(422);
     expect(await refused.json()).toEqual({ error: { code: "unprocessable:dispatch", message: "Goal tile (0, 0) is blocked." } });
-    const viewer = await dispatch(await signInAs("viewer@tessera.test"));
+    const viewer = await dispatch(await signInAs(appUrl, "viewer@tessera.test"));
     expect(viewer.status).toBe(403);
   });
 

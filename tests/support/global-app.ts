@@ -42,6 +42,8 @@ export default async function setup(project: TestProject) {
       NEXTAUTH_SECRET: "tessera-e2e-secret-not-for-production",
       NEXTAUTH_URL: appUrl,
       LOG_LEVEL: "warn",
+      // The live floor's load test streams belief frames at 5 Hz per robot.
+      FLEET_BELIEF_FRAME_HZ: "5",
     },
   });
   await waitForHealth(appUrl, server);
