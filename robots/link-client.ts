@@ -28,6 +28,7 @@ import {
   PROTOCOL_VERSION,
   ReleaseSchema,
   TuneSchema,
+  SimFaultSchema,
   type Ack,
   type RobotEventName,
   type RobotMessage,
@@ -109,6 +110,8 @@ export interface RobotClientOptions {
   onRelease?: (msg: ServerMessage["release"]) => void;
   onDone?: (msg: ServerMessage["done"]) => void;
   onTune?: (msg: ServerMessage["tune"]) => void;
+  /** Simulated robots only: a fault an admin injects. */
+  onFault?: (msg: ServerMessage["fault"]) => void;
   /** Every accepted hello ack (carries lastSeq, state and the active mission). */
   onHello?: (ack: Extract<Ack, { ok: true }>) => void;
   onState?: (state: LinkState, detail: { code?: string; reason?: string }) => void;
@@ -431,6 +434,7 @@ export function createRobotClient(opts: RobotClientOptions): RobotClient {
   serverEvent("release", ReleaseSchema, opts.onRelease);
   serverEvent("done", DoneSchema, opts.onDone);
   serverEvent("tune", TuneSchema, opts.onTune);
+  serverEvent("fault", SimFaultSchema, opts.onFault);
 
   const client: RobotClient = {
     send(event, payload) {

@@ -210,6 +210,10 @@ export function startSimRobot(opts: SimRobotOptions): SimHandle {
       if (mission === msg.mission) mission = null;
       if (queued?.mission === msg.mission) queued = null;
     },
+    onFault: (msg) => {
+      const result = handle.inject(msg);
+      if (!result.ok) emit("refused", { event: "fault", code: "bad_fault", message: result.reason });
+    },
     onTune: (msg) => {
       control = {
         ...control,
@@ -291,7 +295,7 @@ export function startSimRobot(opts: SimRobotOptions): SimHandle {
     return { ok: true };
   };
 
-  return {
+  const handle: SimHandle = {
     id: spec.id,
     spec,
     client,
@@ -348,4 +352,5 @@ export function startSimRobot(opts: SimRobotOptions): SimHandle {
       client.close();
     },
   };
+  return handle;
 }

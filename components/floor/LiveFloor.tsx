@@ -167,7 +167,7 @@ export function LiveFloor({ snapshot, role }: { snapshot: LiveFloorSnapshot; rol
   const [store] = useState(() => createFloorStore(snapshot));
   const canCommand = roleAllows(role, "operator");
   const send = useOpsSocket(store);
-  const commands = useFloorCommandSet(store, send, canCommand);
+  const commands = useFloorCommandSet(store, send, canCommand, roleAllows(role, "admin"));
   useFloorShortcuts(store, commands);
   return (
     <FloorStoreContext.Provider value={store}>

@@ -7,6 +7,7 @@ import { z } from "zod";
 import { useFloorCommands } from "./commands";
 import { Age, Battery, Certainty, Kbd, Sparkline, StatePill } from "./bits";
 import { goalRefusal } from "./geometry";
+import { SimFaults } from "./SimFaults";
 import { useFloor, useFloorStore } from "./store";
 
 const GoalFormSchema = z.object({
@@ -149,6 +150,7 @@ export function RobotCard() {
       ) : (
         <p className="border-t border-ink-700 pt-3 text-xs text-ink-500">Watching only: your role cannot dispatch, hold or release robots.</p>
       )}
+      {commands.canInject && robot.simulated && online && <SimFaults key={robot.robotId} robotId={robot.robotId} />}
     </section>
   );
 }

@@ -5,6 +5,7 @@
 "use client";
 
 import { createContext, useContext, useMemo } from "react";
+import type { SimFaultMessage } from "@/lib/protocol";
 import type { Heading } from "@/lib/vocabulary";
 import type { TileCoord } from "./geometry";
 import type { SendCommand } from "./ops-socket";
@@ -18,10 +19,13 @@ export interface FloorCommands {
   release(robotId: string): Promise<boolean>;
   relocate(robotId: string, tile: TileCoord, heading: Heading | null): Promise<boolean>;
   ackAlert(alertId: number): Promise<boolean>;
+  /** Admins only: fault injection into simulated robots. */
+  canInject: boolean;
+  injectFault(robotId: string, fault: SimFaultMessage): Promise<boolean>;
 }
 
 /** Command functions bound to one store and socket; viewers get functions that refuse locally. */
-export function useFloorCommandSet(store: FloorStore, send: SendCommand, canCommand: boolean): FloorCommands {
+export function useFloorCommandSet(store: FloorStore, send: SendCommand, canCommand: boolean, canInject = false): FloorCommands {
   return useMemo(() => {
     const nameOf = (robotId: string) => store.getState().robots[robotId]?.name ?? robotId;
     const run = async (what: string, go: () => ReturnType<SendCommand>, done: string): Promise<boolean> => {
@@ -52,8 +56,10 @@ export function useFloorCommandSet(store: FloorStore, send: SendCommand, canComm
           `Pose hint for ${nameOf(robotId)}: tile (${tile.row}, ${tile.col})${heading ? `, facing ${heading}` : ""}`,
         ),
       ackAlert: (alertId) => run("The alert was not acknowledged", () => send("ackAlert", { alertId }), "Alert acknowledged"),
+      canInject,
+      injectFault: (robotId, fault) => run(`The ${fault.kind} fault was not injected into ${nameOf(robotId)}`, () => send("fault", { robotId, fault }), `Fault injected into ${nameOf(robotId)}: ${fault.kind}`),
     };
-  }, [store, send, canCommand]);
+  }, [store, send, canCommand, canInject]);
 }
 
 export const FloorCommandsContext = createContext<FloorCommands | null>(null);

@@ -4,6 +4,7 @@
  */
 import { z } from "zod";
 import { ALERT_KINDS, HEADINGS, HOLD_REASONS, ROBOT_STATES } from "../vocabulary";
+import { SimFaultSchema } from "./robot-link";
 
 export const TileSchema = z.object({ row: z.number().int().min(0).max(511), col: z.number().int().min(0).max(511) });
 
@@ -99,6 +100,8 @@ export const OpsCommandSchemas = {
   release: z.object({ robotId: z.string().min(1).max(40) }),
   relocate: z.object({ robotId: z.string().min(1).max(40), row: z.number().int().min(0), col: z.number().int().min(0), heading: z.enum(HEADINGS).optional() }),
   ackAlert: z.object({ alertId: z.number().int() }),
+  /** Admin only, simulated robots only: inject a fault into the simulator. */
+  fault: z.object({ robotId: z.string().min(1).max(40), fault: SimFaultSchema }),
 } as const;
 export type OpsCommandName = keyof typeof OpsCommandSchemas;
 export type OpsCommand<K extends OpsCommandName> = z.infer<(typeof OpsCommandSchemas)[K]>;

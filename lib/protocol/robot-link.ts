@@ -116,12 +116,26 @@ export const TuneSchema = z.object({
   cruiseSpeedMS: z.number().positive().optional(),
 });
 
+/**
+ * Simulator only, an addition to PROTOCOL.md version 1: an admin's fault injection for a
+ * simulated robot (kidnap, stall a wheel, drop the link, drain the battery). Hardware
+ * clients never receive it; seconds are simulated seconds.
+ */
+export const SimFaultSchema = z.discriminatedUnion("kind", [
+  z.object({ kind: z.literal("kidnap"), row: z.number().int().min(0).max(511), col: z.number().int().min(0).max(511), heading: z.enum(HEADINGS).optional() }),
+  z.object({ kind: z.literal("stall"), seconds: z.number().positive().max(600), wheel: z.enum(["left", "right"]).optional() }),
+  z.object({ kind: z.literal("drop"), seconds: z.number().positive().max(600) }),
+  z.object({ kind: z.literal("drain"), level: z.number().min(0).max(1).optional() }),
+]);
+export type SimFaultMessage = z.infer<typeof SimFaultSchema>;
+
 export const SERVER_EVENTS = {
   next: NextSchema,
   hold: HoldSchema,
   release: ReleaseSchema,
   done: DoneSchema,
   tune: TuneSchema,
+  fault: SimFaultSchema,
 } as const;
 export type ServerEventName = keyof typeof SERVER_EVENTS;
 export type ServerMessage = { [K in ServerEventName]: z.infer<(typeof SERVER_EVENTS)[K]> };

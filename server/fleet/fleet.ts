@@ -21,6 +21,7 @@ import {
   type Moved,
   type RobotEventName,
   type Sensed,
+  type SimFaultMessage,
   type Truth,
   type RobotFrame,
   type ServerMessage,
@@ -612,6 +613,20 @@ export class Fleet extends EventEmitter<FleetEvents> {
     if (runtime.hold === "low_certainty" && c.tileMass >= this.config.releaseAbove) this.lift(runtime, { userId: null, label: "hysteresis" });
     this.publishBelief(runtime);
     this.publish(runtime);
+  }
+
+  /** Sends a fault to a connected simulated robot's simulator (never to hardware). */
+  async injectFault(robotId: string, fault: SimFaultMessage, actor: Actor): Promise<void> {
+    const runtime = this.runtime(robotId);
+    if (!runtime.simulated) throw new TesseraError("unprocessable", "fault", `${runtime.name} is hardware; faults are injected into simulated robots only.`);
+    if (!runtime.socket?.connected) throw new TesseraError("unprocessable", "fault", `${runtime.name} is not connected.`);
+    if (fault.kind === "kidnap" && !isFreeTile(runtime.plan, fault.row, fault.col)) {
+      throw new TesseraError("unprocessable", "fault", `Tile (${fault.row}, ${fault.col}) is blocked or outside the floorplan.`);
+    }
+    await this.audit(actor, "fault", robotId, fault);
+    this.logCommand(runtime, "operator", "fault", { ...fault, by: actor.label });
+    runtime.socket.emit("fault", fault);
+    await this.writer.commit();
   }
 
   private async audit(actor: Actor, action: string, target: string, detail: Record<string, unknown>): Promise<void> {

@@ -31,6 +31,11 @@ export async function runCommand(fleet: Fleet, name: Exclude<OpsCommandName, "wa
       await fleet.relocate(p.robotId, { row: p.row, col: p.col, heading: p.heading }, actor);
       return {};
     }
+    case "fault": {
+      const p = payload as OpsCommand<"fault">;
+      await fleet.injectFault(p.robotId, p.fault, actor);
+      return {};
+    }
     case "ackAlert": {
       const { alertId } = payload as OpsCommand<"ackAlert">;
       const result = await fleet.db.update(alerts).set({ ackBy: actor.userId, ackAt: new Date() }).where(eq(alerts.id, alertId));

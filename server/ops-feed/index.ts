@@ -32,6 +32,7 @@ export const OPS_COMMAND_ROLES: Record<OpsCommandName, Role> = {
   release: "operator",
   relocate: "operator",
   ackAlert: "operator",
+  fault: "admin",
 };
 
 export function attachOpsFeed(io: Server, fleet?: Fleet): void {

@@ -103,4 +103,16 @@ describe("simulated missions", { timeout: 120_000 }, () => {
       await east.fleet.stop();
     }
   });
+  it("carries an admin's kidnap to the simulator and refuses faults for hardware", async () => {
+    const sim = await simulated({ row: 2, col: 3, heading: "E" }, 31);
+    try {
+      await server.fleet.injectFault(sim.robot.id, { kind: "kidnap", row: 17, col: 20, heading: "N" }, actor);
+      await expect.poll(() => sim.runtime().lastTruth, { timeout: 10_000 }).toEqual({ row: 17, col: 20, heading: "N" });
+      await expect(server.fleet.injectFault(sim.robot.id, { kind: "kidnap", row: 0, col: 0 }, actor)).rejects.toThrow("Tile (0, 0) is blocked");
+      const hardware = await server.addRobot({ simulated: false });
+      await expect(server.fleet.injectFault(hardware.id, { kind: "drain" }, actor)).rejects.toThrow(/faults are injected into simulated robots only/);
+    } finally {
+      await sim.fleet.stop();
+    }
+  });
 });
