@@ -2,7 +2,8 @@
 import { desc, eq } from "drizzle-orm";
 import { alerts, users } from "../db/schema";
 import { defaultFloorplanId, latestVersion, listFloorplans, planFromVersion } from "../db/queries/floorplans";
-import type { FloorplanView, LiveFloorSnapshot } from "../lib/protocol";
+import type { Db } from "../db/client";
+import type { AlertFrame, FloorplanView, LiveFloorSnapshot } from "../lib/protocol";
 import { floorplans } from "../db/schema";
 import { appDb } from "./db";
 import { TesseraError } from "./errors";
@@ -34,25 +35,25 @@ export async function liveFloorSnapshot(floorplanId?: number): Promise<LiveFloor
   const id = floorplanId ?? (await defaultFloorplanId(db));
   if (id === undefined) throw new TesseraError("not_found", "floorplan", "No floorplan exists yet; an admin can create one under Floorplans.");
   const floorplan = await floorplanView(id);
-  const recent = await db
-    .select({ alert: alerts, ackName: users.name })
-    .from(alerts)
-    .leftJoin(users, eq(users.id, alerts.ackBy))
-    .orderBy(desc(alerts.id))
-    .limit(50);
   const fleet = runningFleet();
   return {
     floorplan,
     floorplans: await listFloorplans(db),
     robots: fleet.frames(id),
-    alerts: recent.map(({ alert, ackName }) => ({
-      id: alert.id,
-      robotId: alert.robotId,
-      kind: alert.kind,
-      message: alert.message,
-      createdAt: alert.createdAt.getTime(),
-      ackBy: ackName,
-      ackAt: alert.ackAt ? alert.ackAt.getTime() : null,
-    })),
+    alerts: await recentAlerts(db),
   };
+}
+
+/** The newest alerts with who acknowledged them, newest first. */
+export async function recentAlerts(db: Db, limit = 50): Promise<AlertFrame[]> {
+  const recent = await db.select({ alert: alerts, ackName: users.name }).from(alerts).leftJoin(users, eq(users.id, alerts.ackBy)).orderBy(desc(alerts.id)).limit(limit);
+  return recent.map(({ alert, ackName }) => ({
+    id: alert.id,
+    robotId: alert.robotId,
+    kind: alert.kind,
+    message: alert.message,
+    createdAt: alert.createdAt.getTime(),
+    ackBy: ackName,
+    ackAt: alert.ackAt ? alert.ackAt.getTime() : null,
+  }));
 }

@@ -13,6 +13,7 @@ import { isTesseraError, TesseraError, zodFields } from "../errors";
 import type { Fleet } from "../fleet/fleet";
 import { logger } from "../logger";
 import { checkOpsHandshake } from "./handshake";
+import { recentAlerts } from "../live-floor";
 import { runCommand } from "./commands";
 
 export function allowedOrigins(): string[] {
@@ -69,7 +70,7 @@ export function attachOpsFeed(io: Server, fleet?: Fleet): void {
               const m = fleet.marginal(frame.robotId);
               if (m) socket.emit(OPS_EVENTS.belief, toBeliefFrame(frame.robotId, m));
             }
-            reply({ ok: true, data: { robots: frames } });
+            reply({ ok: true, data: { robots: frames, alerts: await recentAlerts(fleet.db) } });
             return;
           }
           const data = await runCommand(fleet, name, parsed.data, user);
