@@ -15,12 +15,14 @@ import { FloorLegend } from "./FloorTiles";
 import { FloorMap } from "./FloorMap";
 import { HoverReadout } from "./HoverReadout";
 import { useOpsSocket } from "./ops-socket";
+import { useRestCommands } from "./use-rest-commands";
 import { RobotCard } from "./RobotCard";
 import { RobotTable } from "./RobotTable";
 import { ShortcutHelp } from "./ShortcutHelp";
 import { useFloorShortcuts } from "./shortcuts";
 import { ConnectionBanner, ConnectionPill, NoticeBar } from "./StatusBars";
 import { createFloorStore, FloorStoreContext, useFloor, type HeatMode } from "./store";
+import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
 
 const HEAT_CHOICES: { mode: HeatMode; label: string }[] = [
   { mode: "selected", label: "Selected" },
@@ -161,12 +163,22 @@ function Screen({ canCommand }: { canCommand: boolean }) {
 
 /**
  * The live floor for one floorplan: seeded from the server's snapshot, kept live over
- * /ops. Operators and admins command robots; viewers watch.
+ * /ops, commands sent to the HTTP routes. Operators and admins command robots; viewers watch.
  */
 export function LiveFloor({ snapshot, role }: { snapshot: LiveFloorSnapshot; role: Role }) {
+  const [queryClient] = useState(() => new QueryClient({ defaultOptions: { mutations: { retry: false } } }));
+  return (
+    <QueryClientProvider client={queryClient}>
+      <LiveFloorScreen snapshot={snapshot} role={role} />
+    </QueryClientProvider>
+  );
+}
+
+function LiveFloorScreen({ snapshot, role }: { snapshot: LiveFloorSnapshot; role: Role }) {
   const [store] = useState(() => createFloorStore(snapshot));
   const canCommand = roleAllows(role, "operator");
-  const send = useOpsSocket(store);
+  useOpsSocket(store);
+  const send = useRestCommands();
   const commands = useFloorCommandSet(store, send, canCommand, roleAllows(role, "admin"));
   useFloorShortcuts(store, commands);
   return (

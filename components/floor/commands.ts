@@ -8,7 +8,7 @@ import { createContext, useContext, useMemo } from "react";
 import type { SimFaultMessage } from "@/lib/protocol";
 import type { Heading } from "@/lib/vocabulary";
 import type { TileCoord } from "./geometry";
-import type { SendCommand } from "./ops-socket";
+import type { SendCommand } from "./rest-commands";
 import type { FloorStore } from "./store";
 
 export interface FloorCommands {

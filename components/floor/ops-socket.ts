@@ -1,20 +1,18 @@
 /**
  * The /ops socket for one live floor page: joins the floorplan's room, feeds frames into
- * the floor store, resyncs after every reconnect, and sends commands with an
- * acknowledgement that always settles (a lost link answers with a timeout error).
+ * the floor store and resyncs after every reconnect. Commands go to the HTTP routes
+ * (use-rest-commands.ts).
  */
 "use client";
 
-import { useCallback, useEffect, useRef } from "react";
+import { useEffect } from "react";
 import { io, type Socket } from "socket.io-client";
-import { AlertFrameSchema, OPS_EVENTS, RobotFrameSchema, type AlertFrame, type OpsAck, type OpsCommand, type OpsCommandName, type RobotFrame } from "@/lib/protocol/ops-feed";
+import { AlertFrameSchema, OPS_EVENTS, RobotFrameSchema, type AlertFrame, type OpsAck, type RobotFrame } from "@/lib/protocol/ops-feed";
 import { beliefFromWire } from "./belief";
 import type { FloorStore } from "./store";
 
-/** How long a command waits for its acknowledgement before the client gives up, in ms. */
-export const COMMAND_TIMEOUT_MS = 8000;
-
-export type SendCommand = <K extends Exclude<OpsCommandName, "watch">>(name: K, payload: OpsCommand<K>) => Promise<OpsAck>;
+/** How long joining a floorplan's room waits for its acknowledgement, in ms. */
+const WATCH_TIMEOUT_MS = 8000;
 
 /** The robots (and, if sent, alerts) in a watch acknowledgement, validated; null when it carries none. */
 function resyncOf(data: unknown): { robots: RobotFrame[]; alerts?: AlertFrame[] } | null {
@@ -32,24 +30,21 @@ function refusal(code: string, message: string): OpsAck {
 
 /** Emits `name` and resolves with the server's acknowledgement, or a timeout/offline refusal. */
 function emitWithAck(socket: Socket | null, name: string, payload: unknown): Promise<OpsAck> {
-  if (!socket || !socket.connected) return Promise.resolve(refusal("offline:ops", "The live feed is not connected; the command was not sent."));
+  if (!socket || !socket.connected) return Promise.resolve(refusal("offline:ops", "The live feed is not connected."));
   return new Promise((resolve) => {
-    socket.timeout(COMMAND_TIMEOUT_MS).emit(name, payload, (err: Error | null, ack: OpsAck | undefined) => {
-      if (err) resolve(refusal("timeout:ops", "The server did not answer in time; check the robot before trying again."));
+    socket.timeout(WATCH_TIMEOUT_MS).emit(name, payload, (err: Error | null, ack: OpsAck | undefined) => {
+      if (err) resolve(refusal("timeout:ops", "The server did not answer in time."));
       else if (!ack || typeof ack !== "object" || !("ok" in ack)) resolve(refusal("bad_response:ops", "The server sent an answer the page cannot read."));
       else resolve(ack);
     });
   });
 }
 
-/** Connects to /ops for the store's floorplan while mounted; returns the command sender. */
-export function useOpsSocket(store: FloorStore): SendCommand {
-  const socketRef = useRef<Socket | null>(null);
-
+/** Connects to /ops for the store's floorplan while mounted. */
+export function useOpsSocket(store: FloorStore): void {
   useEffect(() => {
     const floorplanId = store.getState().floorplan.id;
     const socket = io("/ops", { transports: ["websocket"], withCredentials: true });
-    socketRef.current = socket;
     const s = () => store.getState();
 
     const watch = () => {
@@ -97,9 +92,6 @@ export function useOpsSocket(store: FloorStore): SendCommand {
       socket.removeAllListeners();
       socket.io.removeAllListeners();
       socket.disconnect();
-      socketRef.current = null;
     };
   }, [store]);
-
-  return useCallback<SendCommand>((name, payload) => emitWithAck(socketRef.current, name, payload), []);
 }
