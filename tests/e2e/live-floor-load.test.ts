@@ -13,6 +13,7 @@ import { DEMO_SENSORS } from "../../db/seed";
 import { emptyFloorplan } from "../../lib/floorplan";
 import { ROOT } from "../../scripts/local-env";
 import { withBrowser } from "../support/browser";
+import { mainThreadTasks } from "../support/trace";
 import { signInAs } from "../support/session";
 
 const appUrl = inject("appUrl");
@@ -92,19 +93,7 @@ describe("live floor under load", () => {
       await page.locator('[data-testid^="robot-marker-"]').nth(ROBOTS - 1).waitFor({ timeout: 20_000 });
       await page.getByRole("radio", { name: "All robots" }).click();
       frames = 0;
-      const cdp = await context.newCDPSession(page);
-      const events: { name: string; ph: string; dur?: number; pid: number; tid: number; args?: { name?: string } }[] = [];
-      cdp.on("Tracing.dataCollected", (e) => events.push(...(e.value as unknown as typeof events)));
-      await cdp.send("Tracing.start", { categories: "toplevel,devtools.timeline,disabled-by-default-devtools.timeline", transferMode: "ReportEvents" });
-      await page.waitForTimeout(8000);
-      const done = new Promise((resolve) => cdp.once("Tracing.tracingComplete", resolve));
-      await cdp.send("Tracing.end");
-      await done;
-      const mains = events.filter((e) => e.name === "thread_name" && e.args?.name === "CrRendererMain");
-      const busiest = mains
-        .map((m) => ({ m, n: events.filter((e) => e.pid === m.pid && e.tid === m.tid && e.name === "RunTask").length }))
-        .sort((a, b) => b.n - a.n)[0];
-      const tasks = events.filter((e) => e.name === "RunTask" && e.ph === "X" && e.pid === busiest.m.pid && e.tid === busiest.m.tid).map((e) => (e.dur ?? 0) / 1000);
+      const tasks = await mainThreadTasks(context, page, 8000);
       const longest = Math.max(...tasks);
       await page.screenshot({ path: path.join(ROOT, "test-results", "live-floor", "load-hall.png") });
       console.log(`load: ${frames} socket frames and ${tasks.length} main-thread tasks in 8 s, longest ${longest.toFixed(1)} ms`);

@@ -15,6 +15,7 @@ import { closeDb, openDb } from "../../db/client";
 import { seedDemoFleet, seedDemoFloorplan } from "../../db/seed";
 import { ROOT } from "../../scripts/local-env";
 import { withBrowser } from "../support/browser";
+import { mainThreadTasks } from "../support/trace";
 
 const appUrl = inject("appUrl");
 const databaseUrl = inject("databaseUrl");
@@ -193,19 +194,7 @@ describe("live floor", () => {
     await withBrowser(async (context) => {
       const page = await openFloor(context, "operator");
       await page.getByRole("radio", { name: "All robots" }).click();
-      const cdp = await context.newCDPSession(page);
-      const events: { name: string; ph: string; dur?: number; pid: number; tid: number; args?: { name?: string } }[] = [];
-      cdp.on("Tracing.dataCollected", (e) => events.push(...(e.value as unknown as typeof events)));
-      await cdp.send("Tracing.start", { categories: "toplevel,devtools.timeline,disabled-by-default-devtools.timeline", transferMode: "ReportEvents" });
-      await page.waitForTimeout(8000);
-      const done = new Promise((resolve) => cdp.once("Tracing.tracingComplete", resolve));
-      await cdp.send("Tracing.end");
-      await done;
-      const mains = events.filter((e) => e.name === "thread_name" && e.args?.name === "CrRendererMain");
-      const busiest = mains
-        .map((m) => ({ m, n: events.filter((e) => e.pid === m.pid && e.tid === m.tid && e.name === "RunTask").length }))
-        .sort((a, b) => b.n - a.n)[0];
-      const tasks = events.filter((e) => e.name === "RunTask" && e.ph === "X" && e.pid === busiest.m.pid && e.tid === busiest.m.tid).map((e) => (e.dur ?? 0) / 1000);
+      const tasks = await mainThreadTasks(context, page, 8000);
       await page.screenshot({ path: path.join(SHOTS, "operator-all-beliefs.png") });
       expect(tasks.length).toBeGreaterThan(100);
       expect(Math.max(...tasks)).toBeLessThan(50);
