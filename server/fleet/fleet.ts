@@ -9,7 +9,7 @@ import type { Socket } from "socket.io";
 import type { Db } from "../../db/client";
 import { planFromVersion, defaultFloorplanId, latestVersion, versionById } from "../../db/queries/floorplans";
 import { alerts, audit, beliefs, events, missions, robots, type Robot } from "../../db/schema";
-import { poseBelief, tileMarginal } from "../../lib/belief";
+import { tileMarginal } from "../../lib/belief";
 import { isFreeTile, stateIndex, type Floorplan, type Tile } from "../../lib/floorplan";
 import { chooseAction } from "../../lib/planning";
 import {
@@ -27,13 +27,16 @@ import {
   type ServerMessage,
 } from "../../lib/protocol";
 import type { SensorReading, SensorSpec } from "../../lib/sensing";
-import { ACTIONS, HEADINGS, NO_ACTION, type AckCode, type AlertKind, type Heading, type HoldReason, type MissionOutcome, type RobotState } from "../../lib/vocabulary";
+import { ACTIONS, NO_ACTION, type AckCode, type AlertKind, type Heading, type HoldReason, type MissionOutcome } from "../../lib/vocabulary";
 import type { FleetConfig } from "../config";
 import { TesseraError } from "../errors";
 import { logger } from "../logger";
 import { PolicyCache } from "./policy-cache";
-import { likelyTile, routePreview } from "./route-preview";
+import { likelyTile } from "./route-preview";
+import { applyToFilter, FILTER_EVENT_KINDS } from "./filter-events";
+import { missionRef, robotFrame, robotState } from "./frames";
 import { RobotRuntime, type MissionRuntime, type RobotSettings } from "./robot-runtime";
+import { trafficBlocker } from "./traffic";
 import { FleetWriter } from "./writer";
 
 /** Who asked for a command: a signed-in user, or the server itself (demo scheduler). */
@@ -120,7 +123,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
     const later = await this.db
       .select()
       .from(events)
-      .where(and(eq(events.robotId, row.id), gt(events.id, after), inArray(events.kind, ["moved", "sensed", "relocate"])))
+      .where(and(eq(events.robotId, row.id), gt(events.id, after), inArray(events.kind, [...FILTER_EVENT_KINDS])))
       .orderBy(events.id);
     for (const e of later) {
       applyToFilter(runtime, e.kind, e.payload as Record<string, unknown>);
@@ -251,7 +254,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
         .limit(1);
       if (name === "hello") {
         this.comeOnline(runtime);
-        const state = { lastSeq: runtime.lastSeq, state: this.stateOf(runtime), mission: this.missionRef(runtime) };
+        const state = { lastSeq: runtime.lastSeq, state: robotState(runtime), mission: missionRef(runtime) };
         if (seen.length) return { ok: true, seq: msg.seq, dup: true, ...state };
         return { ...refuse(msg.seq, "out_of_order", `seq ${msg.seq} is below the last applied seq ${runtime.lastSeq}; continue from ${runtime.lastSeq + 1}`), lastSeq: runtime.lastSeq, state: state.state };
       }
@@ -343,7 +346,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
     this.publish(runtime);
     if (name === "hello") {
       runtime.resumeAt = Date.now() + 300;
-      return { ok: true, seq: msg.seq, lastSeq: runtime.lastSeq, state: this.stateOf(runtime), mission: this.missionRef(runtime) };
+      return { ok: true, seq: msg.seq, lastSeq: runtime.lastSeq, state: robotState(runtime), mission: missionRef(runtime) };
     }
     return { ok: true, seq: msg.seq };
   }
@@ -434,7 +437,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
     const target = likelyTile(runtime.plan, runtime.filter.table, here, ACTIONS.indexOf(action));
     const moves = target.row !== c.row || target.col !== c.col;
     if (moves) {
-      const blocker = this.blockerOf(runtime, target);
+      const blocker = trafficBlocker(this.robots.values(), runtime, target, this.config.trafficMass);
       if (blocker) {
         this.waitForTraffic(runtime, blocker, target);
         return;
@@ -452,20 +455,6 @@ export class Fleet extends EventEmitter<FleetEvents> {
     this.writer.mission(mission.id, { steps: mission.step });
     this.command(runtime, "next", { mission: mission.id, step: mission.step, action });
     this.publish(runtime);
-  }
-
-  /** Another robot standing confidently on, or claiming, `tile`. */
-  private blockerOf(runtime: RobotRuntime, tile: Tile): RobotRuntime | null {
-    for (const other of this.robots.values()) {
-      if (other === runtime || other.versionId !== runtime.versionId) continue;
-      const claim = other.mission?.claim;
-      if (claim && claim.row === tile.row && claim.col === tile.col) return other;
-      if (other.online || other.mission) {
-        const oc = other.certainty();
-        if (oc.row === tile.row && oc.col === tile.col && oc.tileMass >= this.config.trafficMass) return other;
-      }
-    }
-    return null;
   }
 
   private waitForTraffic(runtime: RobotRuntime, blocker: RobotRuntime, tile: Tile): void {
@@ -676,43 +665,8 @@ export class Fleet extends EventEmitter<FleetEvents> {
 
   // ——— frames for dashboards ———
 
-  stateOf(runtime: RobotRuntime): RobotState {
-    if (!runtime.online) return "offline";
-    if (runtime.hold) return "held";
-    if (runtime.mission) return "under_way";
-    if (runtime.lastOutcome?.outcome === "reached" && Date.now() - runtime.lastOutcome.at < 15_000) return "arrived";
-    return "idle";
-  }
-
-  private missionRef(runtime: RobotRuntime) {
-    const m = runtime.mission;
-    return m ? { id: m.id, goal: m.goal, step: m.step } : null;
-  }
-
   frame(runtime: RobotRuntime): RobotFrame {
-    const c = runtime.certainty();
-    const m = runtime.mission;
-    let route: Tile[] = [];
-    if (m) {
-      const policy = m.detour ?? m.policy;
-      const here = stateIndex(runtime.plan, c.row, c.col, c.heading);
-      route = routePreview(runtime.plan, runtime.filter.table, policy.action, here, m.goal);
-    }
-    return {
-      robotId: runtime.id,
-      name: runtime.name,
-      floorplanId: runtime.floorplanId,
-      versionId: runtime.versionId,
-      simulated: runtime.simulated,
-      online: runtime.online,
-      state: this.stateOf(runtime),
-      holdReason: runtime.hold,
-      battery: runtime.battery,
-      estimate: { row: c.row, col: c.col, heading: HEADINGS[c.heading], tileMass: c.tileMass, entropy: c.entropy },
-      mission: m ? { id: m.id, goal: m.goal, step: m.step, claim: m.claim, route } : null,
-      certaintyHistory: [...runtime.certaintyHistory],
-      lastMessageAt: runtime.lastMessageAt,
-    };
+    return robotFrame(runtime);
   }
 
   frames(floorplanId?: number): RobotFrame[] {
@@ -741,22 +695,4 @@ function seqOf(raw: unknown): number | null {
 
 function newMission(id: number, goal: Tile, versionId: number, policy: MissionRuntime["policy"], step: number, holds: number): MissionRuntime {
   return { id, goal, versionId, step, awaiting: null, lastAction: null, policy, detour: null, armed: false, lowSteps: 0, stays: 0, claim: null, trafficSince: null, holds, minCertainty: 1 };
-}
-
-/** What a stored filter event acts on: a robot runtime, or a bare filter with its plan (replay). */
-export interface FilterTarget {
-  plan: Floorplan;
-  move(action: (typeof ACTIONS)[number]): void;
-  sense(readings: readonly SensorReading[]): unknown;
-  reset(belief?: ArrayLike<number>): void;
-}
-
-/** Applies one stored filter event to a belief; the same code serves live, rebuild and replay. */
-export function applyToFilter(target: FilterTarget, kind: string, payload: Record<string, unknown>): void {
-  if (kind === "moved") target.move(payload.action as (typeof ACTIONS)[number]);
-  else if (kind === "sensed") target.sense(payload.readings as SensorReading[]);
-  else if (kind === "relocate") {
-    const heading = typeof payload.heading === "string" ? (payload.heading as Heading) : undefined;
-    target.reset(poseBelief(target.plan, { row: Number(payload.row), col: Number(payload.col), heading }, 0));
-  }
 }

@@ -1,5 +1,6 @@
 /** Heartbeats (issue 4, PROTOCOL.md "beat"): silence makes a robot offline and holds its mission; a hello brings it back. */
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { robotState } from "../../server/fleet/frames";
 import { connectRobot, helloPayload, scriptedRobot, startTestServer, type TestServer } from "../support/fleet-server";
 
 let server: TestServer;
@@ -23,7 +24,7 @@ describe("heartbeats", () => {
     scripted.socket.close();
 
     await expect.poll(() => runtime().hold, { timeout: 3000 }).toBe("offline");
-    expect(server.fleet.stateOf(runtime())).toBe("offline");
+    expect(robotState(runtime())).toBe("offline");
 
     const back = await connectRobot(server.url, { robot: scripted.robot.id, key: scripted.robot.key });
     const resent: number[] = [];
