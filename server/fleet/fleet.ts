@@ -93,7 +93,8 @@ export class Fleet extends EventEmitter<FleetEvents> {
     await this.writer.flush();
   }
 
-  private async planOf(versionId: number): Promise<Floorplan> {
+  /** The floorplan of a version, cached per process (versions are immutable). */
+  async planOf(versionId: number): Promise<Floorplan> {
     const cached = this.plans.get(versionId);
     if (cached) return cached;
     const row = await versionById(this.db, versionId);
@@ -549,6 +550,8 @@ export class Fleet extends EventEmitter<FleetEvents> {
     runtime.mission = newMission(id, goal, runtime.versionId, policy, 0, 0);
     runtime.mission.armed = c.tileMass >= this.config.releaseAbove;
     runtime.lastOutcome = null;
+    // The belief the mission starts from: replay's step 0.
+    this.snapshot(runtime);
     this.logCommand(runtime, "operator", "dispatch", { goal, by: actor.label });
     await this.audit(actor, "dispatch", robotId, { mission: id, goal });
     if (!runtime.hold) this.sendNext(runtime);
