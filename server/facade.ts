@@ -12,3 +12,6 @@ export { registerRobot, RegisterRobotSchema } from "./robots-api";
 export { runningFleet } from "./registry";
 export { runCommand, actorOf } from "./ops-feed/commands";
 export { missionDetail } from "./missions-api";
+export { listMissions, MissionListQuery, missionEvents, EventPageQuery, exportMissionEvents, type MissionEvent } from "./logbook";
+export { replayMission, replayView } from "./fleet/replay";
+export { missionIdParam } from "./http/params";

@@ -1,7 +1,9 @@
 import { OpsCommandSchemas } from "@/lib/protocol";
-import { route, runCommand, runningFleet } from "@/server/facade";
+import { listMissions, MissionListQuery, route, runCommand, runningFleet } from "@/server/facade";
 
 export const dynamic = "force-dynamic";
+
+export const GET = route({ role: "viewer", surface: "missions", query: MissionListQuery }, async ({ query }) => listMissions(query));
 
 export const POST = route({ role: "operator", surface: "missions", body: OpsCommandSchemas.dispatch }, async ({ body, user }) => {
   const result = await runCommand(runningFleet(), "dispatch", body, user!);
