@@ -1,7 +1,7 @@
 /** What the live floor page renders first: the floorplan, every robot on it, recent alerts. */
 import { desc, eq } from "drizzle-orm";
 import { alerts, users } from "../db/schema";
-import { defaultFloorplanId, latestVersion, listFloorplans, planFromVersion } from "../db/queries/floorplans";
+import { defaultFloorplanId, latestVersion, listFloorplans, planFromVersion, versionById } from "../db/queries/floorplans";
 import type { Db } from "../db/client";
 import type { AlertFrame, FloorplanView, LiveFloorSnapshot } from "../lib/protocol";
 import { floorplans } from "../db/schema";
@@ -9,11 +9,12 @@ import { appDb } from "./db";
 import { TesseraError } from "./errors";
 import { runningFleet } from "./registry";
 
-export async function floorplanView(floorplanId: number): Promise<FloorplanView> {
+/** A floorplan at its latest version, or at `versionId` (the version a mission pinned). */
+export async function floorplanView(floorplanId: number, versionId?: number): Promise<FloorplanView> {
   const db = appDb();
   const row = (await db.select().from(floorplans).where(eq(floorplans.id, floorplanId)).limit(1))[0];
-  const version = row ? await latestVersion(db, floorplanId) : undefined;
-  if (!row || !version) throw new TesseraError("not_found", "floorplan", `There is no floorplan ${floorplanId}.`);
+  const version = row ? (versionId !== undefined ? await versionById(db, versionId) : await latestVersion(db, floorplanId)) : undefined;
+  if (!row || !version || version.floorplanId !== row.id) throw new TesseraError("not_found", "floorplan", `There is no floorplan ${floorplanId}${versionId !== undefined ? ` version ${versionId}` : ""}.`);
   const plan = planFromVersion(version);
   return {
     id: row.id,

@@ -1,0 +1,95 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { MissionReplay } from "@/components/logbook/MissionReplay";
+import { floorplanView, missionDetail, missionEvents, replayMission, requirePageRole, runningFleet } from "@/server/facade";
+
+export const metadata: Metadata = { title: "Mission" };
+
+function summary(kind: string, payload: Record<string, unknown>): string {
+  switch (kind) {
+    case "moved":
+      return `carried out ${String(payload.action)}`;
+    case "sensed":
+      return `${(payload.readings as unknown[]).length} readings`;
+    case "next":
+      return `step ${String(payload.step)}: ${String(payload.action)}`;
+    case "hold":
+      return `hold (${String(payload.reason)})`;
+    case "done":
+      return `done: ${String(payload.outcome)}`;
+    case "dispatch":
+      return `dispatched by ${String(payload.by)}`;
+    case "relocate":
+      return `pose hint (${String(payload.row)}, ${String(payload.col)}) by ${String(payload.by)}`;
+    case "truth":
+      return `true pose (${String(payload.row)}, ${String(payload.col)}) ${String(payload.heading)}`;
+    default:
+      return kind;
+  }
+}
+
+export default async function MissionPage({ params }: { params: Promise<{ id: string }> }) {
+  const { id: raw } = await params;
+  await requirePageRole("viewer", `/logbook/${raw}`);
+  const id = Number(raw);
+  if (!Number.isInteger(id) || id <= 0) notFound();
+  const { mission } = await missionDetail(id).catch(() => notFound());
+  const robot = runningFleet().robots.get(mission.robotId);
+  const plan = robot?.floorplanId ? await floorplanView(robot.floorplanId, mission.versionId) : null;
+  const replay = await replayMission(runningFleet(), id).catch(() => null);
+  const { items, next } = await missionEvents(id, 0, 300);
+  return (
+    <section className="mx-auto max-w-6xl space-y-5 p-6">
+      <div className="flex flex-wrap items-baseline justify-between gap-3">
+        <h1 className="text-xl font-semibold">
+          Mission #{mission.id} · {robot?.name ?? mission.robotId} to ({mission.goal.row}, {mission.goal.col})
+        </h1>
+        <div className="flex gap-3 text-sm">
+          <a className="text-tide underline underline-offset-2" href={`/api/missions/${id}/export?format=csv`}>
+            Events as CSV
+          </a>
+          <a className="text-tide underline underline-offset-2" href={`/api/missions/${id}/export?format=json`}>
+            Events as JSON
+          </a>
+          <Link href="/logbook" className="text-ink-300">
+            Back to the logbook
+          </Link>
+        </div>
+      </div>
+      <p className="text-sm text-ink-300">
+        {mission.state} · {mission.steps} steps · {mission.holds} holds · lowest certainty{" "}
+        {mission.minCertainty === null ? "—" : `${Math.round(mission.minCertainty * 100)} %`} · floorplan version {mission.versionId}
+      </p>
+      {plan && replay ? (
+        <MissionReplay missionId={id} steps={replay.steps} plan={plan} goal={mission.goal} />
+      ) : (
+        <p className="rounded border border-dashed border-ink-700 p-4 text-sm text-ink-300">This mission has no starting belief stored, so it cannot be replayed.</p>
+      )}
+      <h2 className="text-lg font-semibold">Timeline</h2>
+      <table className="w-full text-sm" data-testid="timeline">
+        <thead className="text-left text-ink-500">
+          <tr>
+            <th className="py-1">Received (UTC)</th>
+            <th>From</th>
+            <th>Seq</th>
+            <th>Event</th>
+            <th>Summary</th>
+          </tr>
+        </thead>
+        <tbody>
+          {items.map((e) => (
+            <tr key={e.id} className="border-t border-ink-800">
+              <td className="py-0.5 font-mono">{new Date(e.receivedAt).toISOString().slice(11, 23)}</td>
+              <td>{e.source}</td>
+              <td className="font-mono">{e.seq ?? ""}</td>
+              <td className="font-mono">{e.kind}</td>
+              <td>{summary(e.kind, e.payload as Record<string, unknown>)}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      {next !== null && <p className="text-sm text-ink-500">The first 300 events are shown; the export has them all.</p>}
+    </section>
+  );
+}
