@@ -72,7 +72,7 @@ function Replay({ missionId, steps, plan, goal }: { missionId: number; steps: nu
           }}
         />
         <span className="font-mono" data-testid="replay-step">
-          step {step} / {steps}
+          update {step} / {steps}
         </span>
         <label className="flex items-center gap-1 text-ink-300">
           speed
@@ -105,7 +105,7 @@ function Replay({ missionId, steps, plan, goal }: { missionId: number; steps: nu
                   ({data.truth.row}, {data.truth.col}) facing {data.truth.heading}
                 </dd>
                 <dt className="text-ink-500">Error</dt>
-                <dd className="font-mono">{data.errorTiles} tiles</dd>
+                <dd className="font-mono">{data.errorTiles === 1 ? "1 tile" : `${data.errorTiles} tiles`}</dd>
               </>
             )}
           </dl>
@@ -115,7 +115,7 @@ function Replay({ missionId, steps, plan, goal }: { missionId: number; steps: nu
   );
 }
 
-/** Replay of one mission: scrub or play through its steps and see the belief as it was then. */
+/** Replay of one mission: scrub or play through its belief updates (each move, reading and pose hint) and see the belief as it was then. */
 export function MissionReplay(props: { missionId: number; steps: number; plan: FloorplanView; goal: { row: number; col: number } }) {
   const [client] = useState(() => new QueryClient());
   return (

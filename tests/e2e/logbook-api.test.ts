@@ -2,11 +2,15 @@
  * The logbook's routes against the running server (issue 7): a mission run over the real
  * link, then listed with filters, paged through, exported as CSV and JSON, and replayed.
  */
+import { mkdirSync } from "node:fs";
+import path from "node:path";
 import { io as connect, type Socket } from "socket.io-client";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { DEMO_SENSORS } from "../../db/seed";
 import type { ServerMessage } from "../../lib/protocol";
+import { ROOT } from "../../scripts/local-env";
 import { signInAs } from "../support/session";
+import { withBrowser } from "../support/browser";
 
 const appUrl = inject("appUrl");
 let viewer = "";
@@ -35,6 +39,7 @@ async function until(ok: () => boolean, timeoutMs = 5000): Promise<void> {
 }
 
 beforeAll(async () => {
+  mkdirSync(path.join(ROOT, "test-results", "logbook"), { recursive: true });
   const admin = await signInAs(appUrl, "admin@tessera.test");
   const operator = await signInAs(appUrl, "operator@tessera.test");
   viewer = await signInAs(appUrl, "viewer@tessera.test");
@@ -117,5 +122,26 @@ describe("logbook routes", () => {
     expect(last.body).toMatchObject({ step: 6, steps: 6, event: { kind: "sensed" } });
     expect(Buffer.from((last.body.belief as { data: string }).data, "base64")).toHaveLength(20 * 30);
     expect((await getJson(`/api/missions/${missionId}/replay?step=7`)).status).toBe(400);
+  });
+
+  it("shows the mission in the logbook and scrubs its replay in the browser", async () => {
+    await withBrowser(async (context) => {
+      const page = await context.newPage();
+      await page.setViewportSize({ width: 1440, height: 1000 });
+      await page.goto(`${appUrl}/logbook?robot=${robotId}`);
+      await page.getByLabel("E-mail").fill("viewer@tessera.test");
+      await page.getByLabel("Password").fill("demo-tessera");
+      await page.getByRole("button", { name: "Sign in" }).click();
+      await page.waitForURL(/\/logbook/);
+      expect(await page.getByTestId("mission-total").innerText()).toMatch(/^1 missions/);
+      await page.getByRole("link", { name: `#${missionId}` }).click();
+      await page.waitForURL(`${appUrl}/logbook/${missionId}`);
+      const step = page.getByTestId("replay-step");
+      await expect.poll(() => step.innerText()).toBe("update 6 / 6");
+      await page.getByLabel("Replay step").fill("0");
+      await expect.poll(() => page.getByTestId("replay-readout").innerText()).toMatch(/Start of the mission[\s\S]*\(10, 16\) facing W/);
+      expect(await page.getByTestId("timeline").innerText()).toMatch(/dispatched by operator@tessera\.test/);
+      await page.screenshot({ path: path.join(ROOT, "test-results", "logbook", "mission-replay.png") });
+    });
   });
 });
