@@ -42,7 +42,9 @@ export const DEMO_ROBOTS: readonly DemoRobot[] = [
   { id: "nx-kestrel", name: "Kestrel", drive: "differential", sensors: DEMO_SENSORS, start: { row: 2, col: 3, heading: "E" } },
   { id: "nx-otter", name: "Otter", drive: "differential", sensors: DEMO_SENSORS, start: { row: 10, col: 12, heading: "W" } },
   { id: "nx-magpie", name: "Magpie", drive: "differential", sensors: DEMO_SENSORS, start: { row: 7, col: 24, heading: "N" } },
-  { id: "nx-badger", name: "Badger", drive: "bicycle", sensors: DEMO_SENSORS, start: { row: 16, col: 20, heading: "S" } },
+  // Differential like the others: a bicycle-drive robot that faces a wall has no action that frees it
+  // (the link has no reverse), so in an unattended demo it would sit stuck once it got there.
+  { id: "nx-badger", name: "Badger", drive: "differential", sensors: DEMO_SENSORS, start: { row: 16, col: 20, heading: "S" } },
 ];
 
 export interface DemoFleetCredentials {
@@ -89,7 +91,7 @@ export async function seedDemoFleet(db: Db, floorplanId: number, known: Record<s
         name: robot.name,
         keyHash: hashRobotKey(key),
         drive: robot.drive,
-        model: robot.drive === "bicycle" ? "Annex tricycle cart" : "Annex two-wheel base",
+        model: "Annex two-wheel base",
         sensors: robot.sensors,
         simulated: true,
         floorplanId,
