@@ -55,6 +55,7 @@ describe("server restart", () => {
     expect(resumed[0].mission).toBe(mission.id);
     const [row] = await server.db.select().from(missions).where(eq(missions.id, mission.id));
     expect(row.state).toBe("active");
+    await server.fleet.cancel(robot.id, { userId: null, label: "test" });
     again.close();
   });
 });

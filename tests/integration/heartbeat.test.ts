@@ -33,6 +33,8 @@ describe("heartbeats", () => {
     expect(runtime().hold).toBeNull();
     // The pending step is sent again, with the same step number, so the robot can tell it apart from a new one.
     await expect.poll(() => resent, { timeout: 2000 }).toEqual([1]);
+    // Leave the floor clear for the other suites: an abandoned mission would hold its tiles.
+    await server.fleet.cancel(scripted.robot.id, actor);
     back.close();
   });
 

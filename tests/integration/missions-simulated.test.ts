@@ -75,6 +75,7 @@ describe("simulated missions", { timeout: 120_000 }, () => {
     await server.fleet.relocate(robot.id, { row: 10, col: 19, heading: "W" }, actor);
     expect(runtime().hold).toBeNull();
     expect(runtime().certainty()).toMatchObject({ row: 10, col: 19, tileMass: 1 });
+    await server.fleet.cancel(robot.id, actor);
     scripted.socket.close();
   });
   it("lets two robots cross in the corridor without ever standing on the same tile", async () => {

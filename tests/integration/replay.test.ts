@@ -55,6 +55,7 @@ describe("replay", () => {
     }
     expect(start.certainty).toMatchObject({ row: 10, col: 16, tileMass: 1 });
     await expect(replayMission(server.fleet, mission.id, 21)).rejects.toThrow("outside mission");
+    await server.fleet.cancel(scripted.robot.id, actor);
     scripted.socket.close();
   });
 });
