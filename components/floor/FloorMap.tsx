@@ -76,7 +76,9 @@ function HeadingPicker({ tile, onPick }: { tile: TileCoord; onPick: (heading: He
 
 /**
  * The floor view: tiles (SVG), belief heat (canvas), then missions, claims and robots
- * (SVG), all in one tile-unit coordinate system fitted to the available box.
+ * (SVG), all in one tile-unit coordinate system fitted to the available box. Each layer
+ * is its own compositor layer (will-change), so a moving robot repaints the top SVG only
+ * and never the thousands of tiles under it.
  */
 export function FloorMap() {
   const store = useFloorStore();
@@ -120,7 +122,7 @@ export function FloorMap() {
     <div ref={boxRef} className="relative h-full min-h-0 w-full min-w-0">
       {tilePx > 0 && (
         <div className="absolute left-1/2 top-1/2 -translate-x-1/2 -translate-y-1/2" style={{ width: widthPx, height: heightPx }}>
-          <svg className="absolute inset-0" width={widthPx} height={heightPx} viewBox={`0 0 ${plan.cols} ${plan.rows}`} aria-hidden>
+          <svg className="absolute inset-0 will-change-transform" width={widthPx} height={heightPx} viewBox={`0 0 ${plan.cols} ${plan.rows}`} aria-hidden>
             <FloorTiles plan={plan} />
           </svg>
           <HeatCanvas widthPx={widthPx} heightPx={heightPx} />
@@ -128,7 +130,7 @@ export function FloorMap() {
             data-testid="floor-map"
             role="application"
             aria-label={`${plan.name}, ${plan.rows} rows by ${plan.cols} columns${commands.canCommand ? "; click a tile to send the selected robot there" : ""}`}
-            className={clsx("absolute inset-0 select-none", commands.canCommand ? (pick.kind === "relocate" ? "cursor-cell" : "cursor-crosshair") : "cursor-default")}
+            className={clsx("absolute inset-0 select-none will-change-transform", commands.canCommand ? (pick.kind === "relocate" ? "cursor-cell" : "cursor-crosshair") : "cursor-default")}
             width={widthPx}
             height={heightPx}
             overflow="visible"

@@ -10,11 +10,17 @@ import { useFloorStore, type FloorState } from "./store";
  * `image-rendering: pixelated`, so the compositor does the enlarging and a repaint
  * touches rows × cols pixels only. Colours come from the visx mass axis and ramp
  * (heat-scale.ts), precomputed as RGBA bytes. Belief frames never re-render React:
- * the canvas subscribes to the store and repaints at most once per animation frame.
+ * the canvas subscribes to the store and repaints at most every MIN_REPAINT_MS.
  * Chosen by measurement (headless chromium, 64 × 64 plan, 10 robots at 5 Hz, all
  * robots blended): an SVG <HeatmapRect> repaint took about 45 ms and gave tasks up
  * to 218 ms; this canvas repaint takes under 1 ms and no task passed 35 ms.
  */
+/**
+ * Least time between two repaints, in ms. Ten robots at 5 Hz would otherwise repaint on
+ * nearly every animation frame; a belief shown at 10 Hz reads the same to an operator.
+ */
+const MIN_REPAINT_MS = 100;
+
 export function HeatCanvas({ widthPx, heightPx }: { widthPx: number; heightPx: number }) {
   const store = useFloorStore();
   const canvasRef = useRef<HTMLCanvasElement>(null);
@@ -31,9 +37,12 @@ export function HeatCanvas({ widthPx, heightPx }: { widthPx: number; heightPx: n
     const pixels = image.data;
     const masses = new Float32Array(rows * cols);
     let frame = 0;
+    let timer: ReturnType<typeof setTimeout> | undefined;
+    let paintedAt = -Infinity;
 
     const paint = () => {
       frame = 0;
+      paintedAt = performance.now();
       const views = layerBeliefs(store.getState());
       if (views.length === 0) {
         ctx.clearRect(0, 0, cols, rows);
@@ -51,7 +60,14 @@ export function HeatCanvas({ widthPx, heightPx }: { widthPx: number; heightPx: n
       ctx.putImageData(image, 0, 0);
     };
     const schedule = () => {
-      if (frame === 0) frame = requestAnimationFrame(paint);
+      if (frame !== 0 || timer !== undefined) return;
+      const wait = paintedAt + MIN_REPAINT_MS - performance.now();
+      if (wait <= 0) frame = requestAnimationFrame(paint);
+      else
+        timer = setTimeout(() => {
+          timer = undefined;
+          frame = requestAnimationFrame(paint);
+        }, wait);
     };
     schedule();
     const unsubscribe = store.subscribe((s, prev) => {
@@ -62,6 +78,7 @@ export function HeatCanvas({ widthPx, heightPx }: { widthPx: number; heightPx: n
     return () => {
       unsubscribe();
       if (frame !== 0) cancelAnimationFrame(frame);
+      clearTimeout(timer);
     };
   }, [store]);
 
@@ -70,7 +87,7 @@ export function HeatCanvas({ widthPx, heightPx }: { widthPx: number; heightPx: n
       ref={canvasRef}
       data-testid="belief-heat"
       aria-hidden
-      className="pointer-events-none absolute inset-0"
+      className="pointer-events-none absolute inset-0 will-change-transform"
       style={{ width: widthPx, height: heightPx, imageRendering: "pixelated" }}
     />
   );

@@ -94,12 +94,19 @@ describe("live floor under load", () => {
       await page.getByRole("radio", { name: "All robots" }).click();
       frames = 0;
       const tasks = await mainThreadTasks(context, page, 8000);
-      const longest = Math.max(...tasks);
+      const longest = Math.max(...tasks.map((t) => t.threadMs));
+      const longestWall = Math.max(...tasks.map((t) => t.wallMs));
       await page.screenshot({ path: path.join(ROOT, "test-results", "live-floor", "load-hall.png") });
-      console.log(`load: ${frames} socket frames and ${tasks.length} main-thread tasks in 8 s, longest ${longest.toFixed(1)} ms`);
+      console.log(
+        `load: ${frames} socket frames and ${tasks.length} main-thread tasks in 8 s, longest ${longest.toFixed(1)} ms of thread time (${longestWall.toFixed(1)} ms wall-clock)`,
+      );
       // 10 robots × 5 Hz × 8 s = 400 belief frames (plus robot frames); allow for the throttle's phase.
       expect(frames).toBeGreaterThan(300);
       expect(tasks.length).toBeGreaterThan(100);
+      // The bound is on the task's thread time. On a 2-core test machine the server and the
+      // ten robots share the cores with the browser, and a task's wall-clock time also counts
+      // the moments the OS ran them instead (seen: 42 ms wall for a task of 6 ms thread time),
+      // which is not work the page does and which no operator's workstation carries.
       expect(longest).toBeLessThan(50);
     });
   });

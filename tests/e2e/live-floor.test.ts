@@ -197,7 +197,8 @@ describe("live floor", () => {
       const tasks = await mainThreadTasks(context, page, 8000);
       await page.screenshot({ path: path.join(SHOTS, "operator-all-beliefs.png") });
       expect(tasks.length).toBeGreaterThan(100);
-      expect(Math.max(...tasks)).toBeLessThan(50);
+      // Thread time, for the reason given in live-floor-load.test.ts.
+      expect(Math.max(...tasks.map((t) => t.threadMs))).toBeLessThan(50);
     });
   });
 });
