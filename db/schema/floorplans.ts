@@ -37,3 +37,21 @@ export const floorplanVersions = mysqlTable(
 
 export type FloorplanRow = typeof floorplans.$inferSelect;
 export type FloorplanVersionRow = typeof floorplanVersions.$inferSelect;
+
+/** The file an imported version was parsed from, kept as uploaded beside it. */
+export const floorplanUploads = mysqlTable(
+  "floorplan_uploads",
+  {
+    id: bigint("id", { mode: "number", unsigned: true }).autoincrement().primaryKey(),
+    versionId: bigint("version_id", { mode: "number", unsigned: true }).notNull(),
+    filename: varchar("filename", { length: 255 }).notNull(),
+    mime: varchar("mime", { length: 100 }).notNull(),
+    size: int("size").notNull(),
+    bytes: longblob("bytes").notNull(),
+    createdBy: bigint("created_by", { mode: "number", unsigned: true }),
+    createdAt: timestamp("created_at", { fsp: 3 }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex("floorplan_uploads_version_uq").on(t.versionId)],
+);
+
+export type FloorplanUploadRow = typeof floorplanUploads.$inferSelect;

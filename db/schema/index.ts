@@ -5,3 +5,4 @@ export * from "./missions";
 export * from "./policies";
 export * from "./events";
 export * from "./alerts";
+export * from "./mail";

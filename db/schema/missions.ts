@@ -1,4 +1,5 @@
-import { bigint, double, index, int, mysqlEnum, mysqlTable, timestamp, varchar } from "drizzle-orm/mysql-core";
+import { bigint, double, index, int, mysqlEnum, mysqlTable, text, timestamp, varchar } from "drizzle-orm/mysql-core";
+import { longblob } from "./floorplans";
 import { MISSION_STATES } from "../../lib/vocabulary";
 
 export const missions = mysqlTable(
@@ -21,3 +22,36 @@ export const missions = mysqlTable(
 );
 
 export type MissionRow = typeof missions.$inferSelect;
+
+/** An operator's or lead's note on a mission, optionally pinned to a replay step. */
+export const missionNotes = mysqlTable(
+  "mission_notes",
+  {
+    id: bigint("id", { mode: "number", unsigned: true }).autoincrement().primaryKey(),
+    missionId: bigint("mission_id", { mode: "number", unsigned: true }).notNull(),
+    userId: bigint("user_id", { mode: "number", unsigned: true }).notNull(),
+    step: int("step"),
+    text: text("text").notNull(),
+    createdAt: timestamp("created_at", { fsp: 3 }).notNull().defaultNow(),
+  },
+  (t) => [index("mission_notes_mission_idx").on(t.missionId, t.createdAt)],
+);
+
+/** A photo attached to a note: the checked original and a small thumbnail. */
+export const missionPhotos = mysqlTable(
+  "mission_photos",
+  {
+    id: bigint("id", { mode: "number", unsigned: true }).autoincrement().primaryKey(),
+    noteId: bigint("note_id", { mode: "number", unsigned: true }).notNull(),
+    mime: varchar("mime", { length: 100 }).notNull(),
+    width: int("width").notNull(),
+    height: int("height").notNull(),
+    bytes: longblob("bytes").notNull(),
+    thumb: longblob("thumb").notNull(),
+    createdAt: timestamp("created_at", { fsp: 3 }).notNull().defaultNow(),
+  },
+  (t) => [index("mission_photos_note_idx").on(t.noteId)],
+);
+
+export type MissionNoteRow = typeof missionNotes.$inferSelect;
+export type MissionPhotoRow = typeof missionPhotos.$inferSelect;
