@@ -15,3 +15,7 @@ export { missionDetail } from "./missions-api";
 export { listMissions, MissionListQuery, missionEvents, EventPageQuery, exportMissionEvents, type MissionEvent } from "./logbook";
 export { replayMission, replayView } from "./fleet/replay";
 export { missionIdParam } from "./http/params";
+export * from "./facades/floorplans";
+export * from "./facades/roster";
+export * from "./facades/crew";
+export * from "./facades/logbook-extras";

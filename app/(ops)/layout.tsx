@@ -12,9 +12,15 @@ const BASE_NAV: NavItem[] = [
   { href: "/roster", label: "Roster" },
 ];
 
+const ADMIN_NAV: NavItem[] = [
+  { href: "/crew", label: "Crew" },
+  { href: "/audit", label: "Audit" },
+  { href: "/mail", label: "Sent mail" },
+];
+
 export default async function OpsLayout({ children }: { children: ReactNode }) {
   const user = await requirePageRole("viewer", "/floor");
-  const nav = user.role === "admin" ? [...BASE_NAV, { href: "/crew", label: "Crew" }] : BASE_NAV;
+  const nav = user.role === "admin" ? [...BASE_NAV, ...ADMIN_NAV] : BASE_NAV;
   return (
     <div className="flex min-h-full flex-col">
       <header className="flex items-center justify-between gap-4 border-b border-ink-700 bg-ink-900 px-4 py-2">
