@@ -1,2 +1,2 @@
-/** What app/ uses of the server for logbook-extras; re-exported by server/facade.ts. */
-export {};
+/** What app/ uses of the server for the logbook's curves, what-if replay and notes; re-exported by server/facade.ts. */
+export { certaintyCurve, robotModels } from "../fleet/certainty-curve";

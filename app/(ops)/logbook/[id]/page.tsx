@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { MissionReplay } from "@/components/logbook/MissionReplay";
-import { floorplanView, missionDetail, missionEvents, replayMission, requirePageRole, runningFleet } from "@/server/facade";
+import { floorplanView, missionDetail, missionEvents, replayMission, requirePageRole, robotModels, runningFleet } from "@/server/facade";
 
 export const metadata: Metadata = { title: "Mission" };
 
@@ -38,6 +38,7 @@ export default async function MissionPage({ params }: { params: Promise<{ id: st
   const robot = runningFleet().robots.get(mission.robotId);
   const plan = robot?.floorplanId ? await floorplanView(robot.floorplanId, mission.versionId) : null;
   const replay = await replayMission(runningFleet(), id).catch(() => null);
+  const models = robot ? robotModels(runningFleet(), mission.robotId) : null;
   const { items, next } = await missionEvents(id, 0, 300);
   return (
     <section className="mx-auto max-w-6xl space-y-5 p-6">
@@ -62,7 +63,7 @@ export default async function MissionPage({ params }: { params: Promise<{ id: st
         {mission.minCertainty === null ? "—" : `${Math.round(mission.minCertainty * 100)} %`} · floorplan version {mission.versionId}
       </p>
       {plan && replay ? (
-        <MissionReplay missionId={id} steps={replay.steps} plan={plan} goal={mission.goal} />
+        <MissionReplay missionId={id} steps={replay.steps} plan={plan} goal={mission.goal} models={models} />
       ) : (
         <p className="rounded border border-dashed border-ink-700 p-4 text-sm text-ink-300">This mission has no starting belief stored, so it cannot be replayed.</p>
       )}
