@@ -23,7 +23,7 @@ export default async function OpsLayout({ children }: { children: ReactNode }) {
   const nav = user.role === "admin" ? [...BASE_NAV, ...ADMIN_NAV] : BASE_NAV;
   return (
     <div className="flex min-h-full flex-col">
-      <header className="flex items-center justify-between gap-4 border-b border-ink-700 bg-ink-900 px-4 py-2">
+      <header className="flex items-center justify-between gap-4 border-b border-ink-700 bg-ink-900 px-4 py-2 print:hidden">
         <div className="flex items-center gap-6">
           <span className="font-mono text-sm tracking-[0.3em] text-tide">TESSERA</span>
           <NavLinks items={nav} />

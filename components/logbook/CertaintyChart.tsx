@@ -1,5 +1,6 @@
 "use client";
 
+import { ParentSize } from "@visx/responsive";
 import { Annotation, AnnotationLineSubject, Axis, buildChartTheme, GlyphSeries, Grid, LineSeries, Tooltip, XYChart } from "@visx/xychart";
 import type { CertaintyCurve, CurveMark, CurvePoint } from "@/lib/protocol/what-if";
 
@@ -42,9 +43,13 @@ export function CertaintyChart({ curves, step, onPick }: { curves: ChartCurve[];
   const markY = (m: CurveMark) => first.points.find((p) => p.step === m.step)?.tileMass ?? 0;
   return (
     <figure data-testid="certainty-chart" aria-label="Certainty over the mission's steps" className="text-ink-300">
+      <div className="h-[220px] w-full">
+        <ParentSize>
+          {({ width }) => (
       <XYChart
+        width={width}
         height={220}
-        margin={{ top: 12, right: 16, bottom: 32, left: 44 }}
+        margin={{ top: 18, right: 16, bottom: 40, left: 48 }}
         xScale={{ type: "linear", domain: [0, Math.max(1, last)] }}
         yScale={{ type: "linear", domain: [0, 1] }}
         theme={theme}
@@ -54,7 +59,7 @@ export function CertaintyChart({ curves, step, onPick }: { curves: ChartCurve[];
         }}
       >
         <Grid columns={false} numTicks={5} />
-        <Axis orientation="bottom" label="step" numTicks={8} />
+        <Axis orientation="bottom" label="step" labelOffset={14} numTicks={Math.min(8, Math.max(1, last))} tickFormat={(v: number) => (Number.isInteger(v) ? String(v) : "")} />
         <Axis orientation="left" numTicks={5} tickFormat={(v: number) => `${Math.round(v * 100)} %`} />
         {curves.map((c) => (
           <LineSeries key={c.key} dataKey={c.key} data={c.curve.points} xAccessor={x} yAccessor={y} strokeWidth={c.key === "live models" ? 2 : 1.5} />
@@ -102,6 +107,9 @@ export function CertaintyChart({ curves, step, onPick }: { curves: ChartCurve[];
           }}
         />
       </XYChart>
+          )}
+        </ParentSize>
+      </div>
       <figcaption className="flex flex-wrap gap-4 text-xs">
         {curves.map((c, i) => (
           <span key={c.key} className="flex items-center gap-1.5">

@@ -1,3 +1,4 @@
 export * from "./robot-link";
 export * from "./ops-feed";
 export * from "./what-if";
+export * from "./notes";
