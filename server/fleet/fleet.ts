@@ -524,6 +524,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
     await this.writer.commit();
     await this.db.update(missions).set({ state: outcome, endedAt: new Date() }).where(eq(missions.id, mission.id));
     logger.info({ robot: runtime.id, mission: mission.id, outcome, steps: mission.step }, "mission ended");
+    if (outcome === "failed") void this.alert(runtime, "mission_failed", `${runtime.name} failed mission ${mission.id} to (${mission.goal.row}, ${mission.goal.col}) after ${mission.step} steps`, mission.id);
     this.publish(runtime);
   }
 
@@ -625,9 +626,9 @@ export class Fleet extends EventEmitter<FleetEvents> {
     await this.db.insert(audit).values({ userId: actor.userId, action, target, detail });
   }
 
-  private async alert(runtime: RobotRuntime, kind: AlertKind, message: string): Promise<void> {
+  private async alert(runtime: RobotRuntime, kind: AlertKind, message: string, missionId = runtime.mission?.id ?? null): Promise<void> {
     try {
-      const [{ id }] = await this.db.insert(alerts).values({ robotId: runtime.id, missionId: runtime.mission?.id ?? null, kind, message }).$returningId();
+      const [{ id }] = await this.db.insert(alerts).values({ robotId: runtime.id, missionId, kind, message }).$returningId();
       this.emit("alert", { id, robotId: runtime.id, kind, message, createdAt: Date.now(), floorplanId: runtime.floorplanId });
     } catch (err) {
       logger.error({ err, robot: runtime.id, kind }, "alert could not be stored");
