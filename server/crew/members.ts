@@ -71,7 +71,9 @@ function isDuplicate(err: unknown): boolean {
 }
 
 /** Adds a user without a password and e-mails them a 72-hour link to set one. */
-export async function inviteMember(actor: SessionUser, input: InviteInput): Promise<CrewMember> {
+export async function inviteMember(actor: SessionUser, invite: InviteInput): Promise<CrewMember> {
+  // Addresses are kept lower-case, as sign-in looks them up.
+  const input = { ...invite, email: invite.email.trim().toLowerCase() };
   const db = appDb();
   const actorId = Number(actor.id);
   let created: { id: number; url: string };
@@ -102,20 +104,19 @@ export async function changeMember(actor: SessionUser, id: number, patch: UserPa
   const actorId = Number(actor.id);
   const db = appDb();
   await db.transaction(async (tx) => {
+    // Admins are locked before the target, in one order for every caller: two admins demoting
+    // each other then queue up instead of deadlocking, and the second sees the first's change.
+    const admins =
+      patch.role !== undefined || patch.disabled !== undefined
+        ? await tx.select({ id: users.id }).from(users).where(and(eq(users.role, "admin"), isNull(users.disabledAt))).for("update")
+        : [];
     const [user] = await tx.select().from(users).where(eq(users.id, id)).for("update");
     if (!user) throw new TesseraError("not_found", SURFACE, `There is no user ${id}.`);
     const activeAdmin = user.role === "admin" && !user.disabledAt;
     const demoted = patch.role !== undefined && patch.role !== "admin";
-    if (activeAdmin && (demoted || patch.disabled === true)) {
-      const admins = await tx
-        .select({ id: users.id })
-        .from(users)
-        .where(and(eq(users.role, "admin"), isNull(users.disabledAt)))
-        .for("update");
-      if (admins.length <= 1) {
-        const what = patch.disabled === true ? "deactivated" : `made ${patch.role}`;
-        throw new TesseraError("conflict", SURFACE, `${user.name} is the last active admin and cannot be ${what}; make another user admin first.`);
-      }
+    if (activeAdmin && (demoted || patch.disabled === true) && admins.length <= 1) {
+      const what = patch.disabled === true ? "deactivated" : `made ${patch.role}`;
+      throw new TesseraError("conflict", SURFACE, `${user.name} is the last active admin and cannot be ${what}; make another user admin first.`);
     }
     const set: Partial<User> = {};
     if (patch.role !== undefined && patch.role !== user.role) {
