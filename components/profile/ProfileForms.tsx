@@ -80,7 +80,7 @@ function PasswordForm({ email }: { email: string }) {
 /** The signed-in user's own name and password. */
 export function ProfileForms({ name, email }: { name: string; email: string }) {
   return (
-    <div className="grid gap-4 md:grid-cols-2">
+    <div className="grid items-start gap-4 md:grid-cols-2">
       <NameForm name={name} />
       <PasswordForm email={email} />
     </div>

@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { countOf } from "@/components/admin/plural";
 import { AuditTable } from "@/components/audit/AuditTable";
 import { AuditQuery, auditActions, listAudit, listCrew, requirePageRole } from "@/server/facade";
 
@@ -55,7 +56,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
         </button>
       </form>
       <p className="text-sm text-ink-500" data-testid="audit-total">
-        {total} actions · page {query.page} of {pages}
+        {countOf(total, "action")} · page {query.page} of {pages}
       </p>
       <AuditTable items={items} />
       <nav aria-label="Audit pages" className="flex gap-3 text-sm">

@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import { countOf } from "@/components/admin/plural";
 import { CrewTable } from "@/components/crew/CrewTable";
 import { InviteForm } from "@/components/crew/InviteForm";
 import { listCrew, requirePageRole } from "@/server/facade";
@@ -14,7 +15,7 @@ export default async function CrewPage() {
       <div className="flex flex-wrap items-baseline justify-between gap-2">
         <h1 className="text-xl font-semibold">Crew</h1>
         <p className="text-sm text-ink-500">
-          {members.length} users · {onCall} on call for alert e-mails · the last active admin cannot be demoted or deactivated
+          {countOf(members.length, "user")} · {onCall} on call for alert e-mails · the last active admin cannot be demoted or deactivated
         </p>
       </div>
       <InviteForm />

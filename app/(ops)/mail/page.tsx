@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { countOf } from "@/components/admin/plural";
 import { MailMessage } from "@/components/mail/MailMessage";
 import { listCaughtMail, MailListQuery, requirePageRole } from "@/server/facade";
 
@@ -17,7 +18,7 @@ export default async function MailPage({ searchParams }: { searchParams: Promise
       <div>
         <h1 className="text-xl font-semibold">Sent mail</h1>
         <p className="mt-1 text-sm text-ink-500">
-          Tessera&apos;s own mail catcher keeps every message the server sends while no SMTP provider is configured, so invites and resets can be followed from here. {total} messages · page{" "}
+          Tessera&apos;s own mail catcher keeps every message the server sends while no SMTP provider is configured, so invites and resets can be followed from here. {countOf(total, "message")} · page{" "}
           {query.page} of {pages}
         </p>
       </div>
