@@ -30,7 +30,8 @@ export async function verifyCredentials(raw: unknown): Promise<SessionUser | nul
   const parsed = CredentialsSchema.safeParse(raw);
   if (!parsed.success) return null;
   const user = await findUserByEmail(appDb(), parsed.data.email);
-  if (!user || user.disabledAt) return null;
+  // An invited user has no password until they follow their link.
+  if (!user || user.disabledAt || !user.passwordHash) return null;
   const ok = await bcrypt.compare(parsed.data.password, user.passwordHash);
   if (!ok) {
     logger.info({ email: parsed.data.email }, "sign-in refused: wrong password");

@@ -49,9 +49,11 @@ export async function startMailCatcher(db: Db, port: number): Promise<MailCatche
     },
   });
   await new Promise<void>((resolve, reject) => {
-    server.once("error", reject);
+    const refuse = (err: Error) =>
+      reject(new Error(`The mail catcher cannot listen on 127.0.0.1:${port} (${err.message}); set MAIL_CATCHER_PORT to a free port, or SMTP_HOST to a real provider.`, { cause: err }));
+    server.once("error", refuse);
     server.listen(port, "127.0.0.1", () => {
-      server.off("error", reject);
+      server.off("error", refuse);
       resolve();
     });
   });

@@ -60,6 +60,6 @@ describe("mail", () => {
 
   it("refuses to start a second catcher on a port already taken, saying so", async () => {
     const { startMailCatcher } = await import("../../server/mail/catcher");
-    await expect(startMailCatcher(db, TEST_SMTP_PORT)).rejects.toThrow(/EADDRINUSE/);
+    await expect(startMailCatcher(db, TEST_SMTP_PORT)).rejects.toThrow(new RegExp(`cannot listen on 127.0.0.1:${TEST_SMTP_PORT} \\(.*EADDRINUSE.*\\); set MAIL_CATCHER_PORT`));
   });
 });
