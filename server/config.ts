@@ -111,6 +111,30 @@ export function fleetConfig(overrides: Partial<FleetConfig> = {}): FleetConfig {
   return { ...parsed.data, ...overrides };
 }
 
+const MailConfigSchema = z.object({
+  /** A real provider's SMTP host; unset means Tessera's own catcher on loopback (npm start, tests). */
+  SMTP_HOST: z.string().min(1).optional(),
+  SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(587),
+  SMTP_USER: z.string().min(1).optional(),
+  SMTP_PASSWORD: z.string().min(1).optional(),
+  MAIL_FROM: z.string().min(3).default("Tessera <tessera@localhost>"),
+  /** Port of the loopback SMTP catcher that the server runs when SMTP_HOST is unset. */
+  MAIL_CATCHER_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
+});
+
+export type MailConfig = z.infer<typeof MailConfigSchema>;
+
+/** Outgoing mail settings; an empty variable counts as unset. */
+export function mailConfig(): MailConfig {
+  const raw = Object.fromEntries(Object.keys(MailConfigSchema.shape).flatMap((name) => (process.env[name] ? [[name, process.env[name]]] : [])));
+  const parsed = MailConfigSchema.safeParse(raw);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((issue) => `  ${issue.path.join(".")}: ${issue.message}`);
+    throw new Error(`Tessera cannot send mail; fix these environment variables:\n${lines.join("\n")}`);
+  }
+  return parsed.data;
+}
+
 /** Whether the demo scheduler sends idle simulated robots on errands; `npm start` turns it on unless TESSERA_DEMO_ERRANDS=off. */
 export function demoErrandsEnabled(): boolean {
   return process.env.TESSERA_DEMO_ERRANDS === "on";

@@ -2,11 +2,12 @@ import { createServer } from "node:http";
 import next from "next";
 import { Server } from "socket.io";
 import { closeDb } from "../db/client";
-import { config, demoErrandsEnabled, fleetConfig } from "./config";
+import { config, demoErrandsEnabled, fleetConfig, mailConfig } from "./config";
 import { startDemoErrands } from "./fleet/demo-errands";
 import { Fleet } from "./fleet/fleet";
 import { appDb } from "./db";
 import { logger } from "./logger";
+import { startMailCatcher, type MailCatcher } from "./mail/catcher";
 import { attachOpsFeed } from "./ops-feed";
 import { registry } from "./registry";
 import { attachRobotLink } from "./robot-link";
@@ -37,6 +38,9 @@ export async function startTessera(): Promise<void> {
   registry().fleet = fleet;
   attachRobotLink(io, db, fleet);
   attachOpsFeed(io, fleet);
+  // Without a real provider, mail goes to Tessera's own catcher and shows on /mail.
+  const mail = mailConfig();
+  const catcher: MailCatcher | undefined = mail.SMTP_HOST ? undefined : await startMailCatcher(db, mail.MAIL_CATCHER_PORT);
   const stopErrands = demoErrandsEnabled() ? startDemoErrands(fleet) : () => {};
 
   await new Promise<void>((resolve) => http.listen(c.PORT, c.HOST, resolve));
@@ -54,6 +58,7 @@ export async function startTessera(): Promise<void> {
       http.closeAllConnections?.();
     });
     stopErrands();
+    await catcher?.stop();
     await fleet.stop();
     await closeDb();
     logger.info("stopped");
