@@ -1,4 +1,6 @@
 /** What app/ uses of the server for reports; re-exported by server/facade.ts. */
+import { asc } from "drizzle-orm";
+import { floorplans } from "../../db/schema";
 import { shiftSummaryCsv } from "../../lib/reports/shift-csv";
 import type { ShiftRange } from "../../lib/protocol/reports";
 import { appDb } from "../db";
@@ -27,4 +29,9 @@ export async function shiftReportCsv(range: ShiftRange): Promise<Response> {
 /** Sends the digest of a range to the on-call list through the configured mailer. */
 export function sendShiftDigestNow(range: ShiftRange) {
   return sendShiftDigest(appDb(), range, mailSender());
+}
+
+/** Every floorplan by name, for the report's picker. */
+export function reportFloorplans(): Promise<{ id: number; name: string }[]> {
+  return appDb().select({ id: floorplans.id, name: floorplans.name }).from(floorplans).orderBy(asc(floorplans.name));
 }
