@@ -26,7 +26,8 @@ export function FigureBars({ title, bars, height = 180 }: { title: string; bars:
   return (
     <figure className="rounded-lg border border-ink-700 bg-ink-900 p-3" aria-label={title}>
       <figcaption className="mb-1 text-sm font-medium text-ink-300">{title}</figcaption>
-      <div className="text-ink-500" role="img" aria-label={`${title}: ${bars.map((b) => `${b.label} ${b.value}`).join(", ")}`}>
+      {/* XYChart measures this box for its width; the box needs its own height, or it measures 0. */}
+      <div className="text-ink-500" style={{ height }} role="img" aria-label={`${title}: ${bars.map((b) => `${b.label} ${b.value}`).join(", ")}`}>
         <XYChart
           height={height}
           theme={theme}

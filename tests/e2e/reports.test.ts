@@ -132,13 +132,15 @@ describe("reports page", () => {
       expect(await figures.innerText()).toContain("Median time to reach\n4 min 00 s");
       expect(await page.getByRole("img", { name: /^Missions by outcome: Reached 3, Aborted 1, Failed 1, Under way 0$/ }).count()).toBe(1);
       expect(await page.getByRole("img", { name: /^Holds by reason: Low certainty 2, Operator 1, Link lost 0, Traffic 1, Fault 0$/ }).count()).toBe(1);
+      await expect.poll(() => page.locator('figure[aria-label="Missions by outcome"] svg rect').count()).toBeGreaterThanOrEqual(3);
       expect(await page.getByRole("button", { name: "Last 8 h" }).getAttribute("aria-pressed")).toBe("true");
       const csv = page.getByRole("link", { name: "Download CSV" });
       expect(await csv.getAttribute("href")).toContain(`floorplan=${floorplanId}`);
+      // Counts sort largest first on the first click, smallest first on the second.
       await table.getByRole("button", { name: "Started" }).click();
-      await expect.poll(() => table.getByRole("row").nth(1).innerText()).toMatch(/^Heron/);
+      await expect.poll(() => table.getByRole("row").nth(1).innerText()).toMatch(/^Wren\t3\t2\t0\t1\t0\t26 min 00 s\t3 min 00 s\t18 %\t54 %\t3$/);
       await table.getByRole("button", { name: /Started/ }).click();
-      await expect.poll(() => table.getByRole("row").nth(1).innerText()).toMatch(/^Wren/);
+      await expect.poll(() => table.getByRole("row").nth(1).innerText()).toMatch(/^Heron/);
       await page.screenshot({ path: path.join(shots, "reports-dark.png"), fullPage: true });
       await page.getByRole("button", { name: "Send digest now" }).click();
       await expect.poll(() => page.getByRole("status").innerText()).toMatch(/E-mail is not configured|on-call list/);
