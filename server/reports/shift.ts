@@ -12,16 +12,22 @@
 import { sql, type SQL } from "drizzle-orm";
 import type { Db } from "../../db/client";
 import type { ShiftFigures, ShiftRange, ShiftRobotRow, ShiftSummary, HoldsByReason } from "../../lib/protocol/reports";
-import { HOLD_REASONS, type HoldReason } from "../../lib/vocabulary";
+import { HOLD_REASONS, MISSION_STATES, type HoldReason } from "../../lib/vocabulary";
 
 async function rowsOf<T>(db: Db, query: SQL): Promise<T[]> {
   const [rows] = (await db.execute(query)) as unknown as [T[]];
   return rows;
 }
 
-function scope(range: ShiftRange): SQL {
+/**
+ * The missions of a range. Every mission is in one of MISSION_STATES, so naming them all
+ * changes no result but lets missions_state_idx (state, started_at) serve the range as four
+ * index ranges instead of a scan of the whole table.
+ */
+export function shiftScope(range: ShiftRange): SQL {
   const floorplan = range.floorplanId === undefined ? sql`` : sql` AND v.floorplan_id = ${range.floorplanId}`;
-  return sql`m.started_at >= ${new Date(range.from)} AND m.started_at < ${new Date(range.to)}${floorplan}`;
+  const states = sql.join(MISSION_STATES.map((s) => sql`${s}`), sql`, `);
+  return sql`m.state IN (${states}) AND m.started_at >= ${new Date(range.from)} AND m.started_at < ${new Date(range.to)}${floorplan}`;
 }
 
 interface FigureRow {
@@ -48,7 +54,7 @@ export async function shiftSummary(db: Db, range: ShiftRange): Promise<ShiftSumm
   // A mission still under way counts up to the end of the range, or up to now if that is sooner.
   const cap = new Date(Math.min(range.to, Date.now()));
   const end = new Date(range.to);
-  const where = scope(range);
+  const where = shiftScope(range);
 
   const figures = await rowsOf<FigureRow>(
     db,

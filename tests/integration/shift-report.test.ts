@@ -5,11 +5,12 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { inject } from "vitest";
 import { closeDb, openDb, type Db } from "../../db/client";
+import { sql } from "drizzle-orm";
 import { events } from "../../db/schema";
 import type { ShiftFigures, ShiftSummary } from "../../lib/protocol/reports";
 import { shiftSummaryCsv, SHIFT_CSV_COLUMNS, TOTALS_LABEL } from "../../lib/reports/shift-csv";
 import { HOLD_REASONS, MISSION_STATES, type HoldReason } from "../../lib/vocabulary";
-import { shiftSummary } from "../../server/reports/shift";
+import { shiftScope, shiftSummary } from "../../server/reports/shift";
 import { seededUniform } from "../support/plans";
 import { seedFloorplan, seedMissions, seedRobots, type SeedMission } from "../support/report-seed";
 
@@ -54,6 +55,8 @@ beforeAll(async () => {
   list.push({ robotId: onA[1], versionId: a.versionId, floorplanId: a.floorplanId, state: "aborted", startedAt: TO - 60_000, endedAt: TO + 60_000, minCertainty: 0.7 });
   const ids = await seedMissions(db, list);
   seeded = list;
+  // A month of earlier missions outside the range, so the table is large enough for the planner to prefer an index.
+  await seedMissions(db, Array.from({ length: 2000 }, (_, i) => ({ robotId: onB[0], versionId: b.versionId, state: "reached" as const, startedAt: FROM - 30 * 86_400_000 + i * 60_000, endedAt: FROM - 30 * 86_400_000 + i * 60_000 + 5000, minCertainty: 0.4 })));
 
   // Logged but not holds of the server: an operator's hold request and a release.
   await db.insert(events).values([
@@ -136,6 +139,14 @@ describe("shift summary", () => {
     const empty = await shiftSummary(db, { from: FROM - 86_400_000 * 3, to: FROM - 86_400_000 * 2, floorplanId: floorA });
     expect(empty.robots).toEqual([]);
     expect(empty.totals).toMatchObject({ started: 0, reached: 0, underWayS: 0, medianReachS: null, certaintyMin: null, certaintyMean: null });
+  });
+
+  it("reads the range through missions_state_idx rather than the whole table", async () => {
+    await db.execute(sql`ANALYZE TABLE missions`);
+    const [plan] = (await db.execute(sql`EXPLAIN SELECT COUNT(*) FROM missions m JOIN floorplan_versions v ON v.id = m.version_id WHERE ${shiftScope({ from: FROM, to: TO, floorplanId: floorA })}`)) as unknown as [{ table: string; type: string; key: string | null }[]];
+    const missionsStep = plan.find((row) => row.table === "m")!;
+    expect(missionsStep.key).toBe("missions_state_idx");
+    expect(missionsStep.type).toBe("range");
   });
 
   it("writes the same figures to CSV as to JSON", async () => {
