@@ -19,10 +19,13 @@ export async function seedFloorplan(db: Db, name: string): Promise<{ floorplanId
   return { floorplanId, versionId };
 }
 
-/** Robots on a floorplan, registered with a key no one holds; ids are unique per run. */
+/**
+ * Robots on a floorplan, registered with a key no one holds; ids are unique per run. They
+ * are retired at once, so a fleet another suite starts later does not load them.
+ */
 export async function seedRobots(db: Db, floorplanId: number, names: string[]): Promise<string[]> {
   const stamp = `${process.pid}-${Date.now() % 1_000_000}`;
-  const rows = names.map((name, i) => ({ id: `rp-${stamp}-${floorplanId}-${i}`, name, keyHash: "x", sensors: TEST_SENSORS, floorplanId }));
+  const rows = names.map((name, i) => ({ id: `rp-${stamp}-${floorplanId}-${i}`, name, keyHash: "x", sensors: TEST_SENSORS, floorplanId, retiredAt: new Date() }));
   await db.insert(robots).values(rows);
   return rows.map((r) => r.id);
 }
