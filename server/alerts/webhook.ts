@@ -39,13 +39,16 @@ function retryable(status: number): boolean {
   return status === 408 || status === 429 || status >= 500;
 }
 
+/** Waits `ms`, or less if `signal` aborts; the abort listener goes with the wait, since the signal outlives many of them. */
 function pause(ms: number, signal: AbortSignal): Promise<void> {
   return new Promise((resolve) => {
-    const timer = setTimeout(resolve, ms);
-    signal.addEventListener("abort", () => {
+    const done = () => {
       clearTimeout(timer);
+      signal.removeEventListener("abort", done);
       resolve();
-    }, { once: true });
+    };
+    const timer = setTimeout(done, ms);
+    signal.addEventListener("abort", done, { once: true });
   });
 }
 
