@@ -139,3 +139,50 @@ export function mailConfig(): MailConfig {
 export function demoErrandsEnabled(): boolean {
   return process.env.TESSERA_DEMO_ERRANDS === "on";
 }
+
+const ReportsConfigSchema = z.object({
+  /** Local wall-clock time at which each shift ends and its digest goes out; unset sends none. */
+  TESSERA_SHIFT_END: z
+    .string()
+    .regex(/^([01]\d|2[0-3]):[0-5]\d$/, "must be a local time as HH:MM, 00:00 to 23:59")
+    .optional(),
+});
+
+/** The end-of-shift digest's schedule. */
+export function reportsConfig(): { shiftEnd: string | null } {
+  const parsed = ReportsConfigSchema.safeParse(process.env);
+  if (!parsed.success) throw new Error(`Tessera cannot start; TESSERA_SHIFT_END ${parsed.error.issues[0].message}`);
+  return { shiftEnd: parsed.data.TESSERA_SHIFT_END ?? null };
+}
+
+const WebhookConfigSchema = z
+  .object({
+    ALERT_WEBHOOK_URL: z.url({ protocol: /^https?$/, message: "must be an http(s) URL" }).optional(),
+    ALERT_WEBHOOK_SECRET: z.string().min(16, "must be at least 16 characters").optional(),
+    /** First retry delay; each later one doubles it. */
+    ALERT_WEBHOOK_BASE_DELAY_MS: z.coerce.number().int().min(1).default(1000),
+    ALERT_WEBHOOK_TRIES: z.coerce.number().int().min(1).max(10).default(5),
+  })
+  .refine((c) => (c.ALERT_WEBHOOK_URL === undefined) === (c.ALERT_WEBHOOK_SECRET === undefined), {
+    message: "ALERT_WEBHOOK_URL and ALERT_WEBHOOK_SECRET are set together or not at all",
+    path: ["ALERT_WEBHOOK_SECRET"],
+  });
+
+export interface WebhookConfig {
+  url: string;
+  secret: string;
+  baseDelayMs: number;
+  tries: number;
+}
+
+/** The outgoing alert webhook, or null when no admin configured one. */
+export function webhookConfig(): WebhookConfig | null {
+  const parsed = WebhookConfigSchema.safeParse(process.env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((issue) => `  ${issue.path.join(".")}: ${issue.message}`);
+    throw new Error(`Tessera cannot start; fix the alert webhook settings:\n${lines.join("\n")}`);
+  }
+  const c = parsed.data;
+  if (!c.ALERT_WEBHOOK_URL || !c.ALERT_WEBHOOK_SECRET) return null;
+  return { url: c.ALERT_WEBHOOK_URL, secret: c.ALERT_WEBHOOK_SECRET, baseDelayMs: c.ALERT_WEBHOOK_BASE_DELAY_MS, tries: c.ALERT_WEBHOOK_TRIES };
+}

@@ -2,7 +2,8 @@ import { createServer } from "node:http";
 import next from "next";
 import { Server } from "socket.io";
 import { closeDb } from "../db/client";
-import { config, demoErrandsEnabled, fleetConfig, mailConfig } from "./config";
+import { attachAlertWebhook } from "./alerts/webhook";
+import { config, demoErrandsEnabled, fleetConfig, mailConfig, webhookConfig } from "./config";
 import { startDemoErrands } from "./fleet/demo-errands";
 import { Fleet } from "./fleet/fleet";
 import { appDb } from "./db";
@@ -11,6 +12,7 @@ import { startMailCatcher, type MailCatcher } from "./mail/catcher";
 import { attachOpsFeed } from "./ops-feed";
 import { registry } from "./registry";
 import { attachRobotLink } from "./robot-link";
+import { startShiftDigests } from "./reports/schedule";
 
 /** Frames over this size are dropped by socket.io itself before any parsing; the link's own limit is lower. */
 const MAX_FRAME_BYTES = 64 * 1024;
@@ -42,6 +44,7 @@ export async function startTessera(): Promise<void> {
   const mail = mailConfig();
   const catcher: MailCatcher | undefined = mail.SMTP_HOST ? undefined : await startMailCatcher(db, mail.MAIL_CATCHER_PORT);
   const stopErrands = demoErrandsEnabled() ? startDemoErrands(fleet) : () => {};
+  const stopReports = [attachAlertWebhook(fleet, webhookConfig()), startShiftDigests(db)];
 
   await new Promise<void>((resolve) => http.listen(c.PORT, c.HOST, resolve));
   logger.info({ url: `http://${c.HOST}:${c.PORT}`, mode: dev ? "development" : "production" }, "Tessera is listening");
@@ -58,6 +61,7 @@ export async function startTessera(): Promise<void> {
       http.closeAllConnections?.();
     });
     stopErrands();
+    for (const stop of stopReports) stop();
     await catcher?.stop();
     await fleet.stop();
     await closeDb();
