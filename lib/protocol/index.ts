@@ -1,2 +1,3 @@
 export * from "./robot-link";
 export * from "./ops-feed";
+export * from "./floorplans";
