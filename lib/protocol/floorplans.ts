@@ -40,3 +40,20 @@ export const SaveVersionBodySchema = z.object({
   plan: z.record(z.string(), z.unknown()),
 });
 export type SaveVersionBody = z.infer<typeof SaveVersionBodySchema>;
+
+/** Largest floorplan file accepted by the import, in bytes. */
+export const FLOORPLAN_UPLOAD_MAX_BYTES = 2 * 1024 * 1024;
+
+/** Import settings sent as form fields beside the file (strings on the wire, hence the coercion). */
+export const ImportOptionsSchema = z.object({
+  tileM: z.coerce.number("must be a number of metres").positive("must be a positive number of metres").max(10, "must be at most 10 m"),
+  pixelsPerTile: z.coerce.number("must be a number of pixels").int("must be a whole number of pixels").min(1, "must be at least 1").max(256, "must be at most 256").default(1),
+  threshold: z.coerce.number().int().min(0).max(255).default(128),
+});
+export type ImportOptions = z.infer<typeof ImportOptionsSchema>;
+
+export const ImportFieldsSchema = ImportOptionsSchema.extend({
+  name: z.string().trim().min(1, "a floorplan needs a name").max(120, "at most 120 characters"),
+  note: z.string().trim().max(500).optional(),
+});
+export type ImportFields = z.infer<typeof ImportFieldsSchema>;

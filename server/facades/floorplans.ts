@@ -2,6 +2,7 @@
 export {
   exportFloorplan,
   floorplanDetail,
+  findFloorplanDetail,
   floorplanIdParam,
   floorplanOriginal,
   floorplanSummaries,
@@ -10,4 +11,3 @@ export {
   saveFloorplanVersion,
   type FloorplanDetail,
 } from "../floorplans/api";
-export { UPLOAD_MAX_BYTES } from "../floorplans/upload";

@@ -10,12 +10,13 @@ import { floorplanToCsv, floorplanToJson, FloorplanParseError, floorplanFromJson
 import type { FloorplanSummary, FloorplanVersionInfo, FloorplanView, SaveVersionBody } from "../../lib/protocol";
 import type { SessionUser } from "../auth/options";
 import { appDb } from "../db";
-import { TesseraError } from "../errors";
+import { isTesseraError, TesseraError } from "../errors";
 import { floorplanView } from "../live-floor";
 import { logger } from "../logger";
 import { registry } from "../registry";
 import { importFloorplan, latestVersions, saveVersion, uploadOfVersion, versionsOf } from "./store";
-import { ImportFieldsSchema, ImportOptionsSchema, parseFields, parseUpload, readUploadForm, requireFreeTile } from "./upload";
+import { ImportFieldsSchema, ImportOptionsSchema } from "../../lib/protocol";
+import { parseFields, parseUpload, readUploadForm, requireFreeTile } from "./upload";
 
 function userIdOf(user: SessionUser | null): number | null {
   return user ? Number(user.id) : null;
@@ -76,6 +77,18 @@ export interface FloorplanDetail {
 export async function floorplanDetail(floorplanId: number, version?: number): Promise<FloorplanDetail> {
   const { info, versions } = await versionRow(floorplanId, version);
   return { floorplan: await floorplanView(floorplanId, info.id), versions, robots: robotsByFloorplan().get(floorplanId) ?? [] };
+}
+
+/** Like floorplanDetail for a page: null when the id or version does not name a floorplan. */
+export async function findFloorplanDetail(rawId: string, version?: number): Promise<FloorplanDetail | null> {
+  const id = Number(rawId);
+  if (!Number.isInteger(id) || id <= 0) return null;
+  try {
+    return await floorplanDetail(id, version);
+  } catch (err) {
+    if (isTesseraError(err) && err.type === "not_found") return null;
+    throw err;
+  }
 }
 
 /** Tells the running fleet that a floorplan has a new version; a failure there never undoes the save. */

@@ -5,10 +5,9 @@
  */
 import { z } from "zod";
 import { FloorplanParseError, freeTileCount, parseFloorplan, type Floorplan } from "../../lib/floorplan";
+import { FLOORPLAN_UPLOAD_MAX_BYTES, type ImportOptions } from "../../lib/protocol";
 import { TesseraError, zodFields } from "../errors";
 
-/** Largest file accepted, in bytes. */
-export const UPLOAD_MAX_BYTES = 2 * 1024 * 1024;
 /** Room for the multipart boundaries and the small text fields around the file. */
 const FORM_OVERHEAD_BYTES = 64 * 1024;
 
@@ -20,23 +19,9 @@ export interface UploadedFile {
 
 export type UploadKind = "png" | "pgm" | "text";
 
-/** Form fields beside the file; numbers arrive as strings. */
-export const ImportOptionsSchema = z.object({
-  tileM: z.coerce.number().positive("must be a positive number of metres").max(10, "must be at most 10 m"),
-  pixelsPerTile: z.coerce.number().int("must be a whole number of pixels").min(1).max(256).default(1),
-  threshold: z.coerce.number().int().min(0).max(255).default(128),
-});
-export type ImportOptions = z.infer<typeof ImportOptionsSchema>;
-
-export const ImportFieldsSchema = ImportOptionsSchema.extend({
-  name: z.string().trim().min(1, "a floorplan needs a name").max(120),
-  note: z.string().trim().max(500).optional(),
-});
-export type ImportFields = z.infer<typeof ImportFieldsSchema>;
-
 async function readCapped(req: Request, surface: string): Promise<Uint8Array<ArrayBuffer>> {
-  const limit = UPLOAD_MAX_BYTES + FORM_OVERHEAD_BYTES;
-  const tooLarge = () => new TesseraError("too_large", surface, `The upload is larger than the ${UPLOAD_MAX_BYTES / (1024 * 1024)} MB limit.`, { fields: { file: ["file too large"] } });
+  const limit = FLOORPLAN_UPLOAD_MAX_BYTES + FORM_OVERHEAD_BYTES;
+  const tooLarge = () => new TesseraError("too_large", surface, `The upload is larger than the ${FLOORPLAN_UPLOAD_MAX_BYTES / (1024 * 1024)} MB limit.`, { fields: { file: ["file too large"] } });
   const declared = Number(req.headers.get("content-length") ?? "0");
   if (declared > limit) throw tooLarge();
   if (!req.body) return new Uint8Array(new ArrayBuffer(0));
@@ -62,7 +47,7 @@ async function readCapped(req: Request, surface: string): Promise<Uint8Array<Arr
   return out;
 }
 
-/** Reads a multipart form of at most UPLOAD_MAX_BYTES of file: the `file` part and the text fields. */
+/** Reads a multipart form of at most FLOORPLAN_UPLOAD_MAX_BYTES of file: the `file` part and the text fields. */
 export async function readUploadForm(req: Request, surface: string): Promise<{ file: UploadedFile; fields: Record<string, string> }> {
   const type = req.headers.get("content-type") ?? "";
   if (!type.startsWith("multipart/form-data")) {
@@ -77,7 +62,7 @@ export async function readUploadForm(req: Request, surface: string): Promise<{ f
   }
   const part = form.get("file");
   if (!(part instanceof Blob)) throw new TesseraError("bad_request", surface, "Choose a file to import.", { fields: { file: ["missing file"] } });
-  if (part.size > UPLOAD_MAX_BYTES) throw new TesseraError("too_large", surface, `The file is larger than the ${UPLOAD_MAX_BYTES / (1024 * 1024)} MB limit.`, { fields: { file: ["file too large"] } });
+  if (part.size > FLOORPLAN_UPLOAD_MAX_BYTES) throw new TesseraError("too_large", surface, `The file is larger than the ${FLOORPLAN_UPLOAD_MAX_BYTES / (1024 * 1024)} MB limit.`, { fields: { file: ["file too large"] } });
   if (part.size === 0) throw new TesseraError("unprocessable", surface, "The file is empty.", { fields: { file: ["empty file"] } });
   const fields: Record<string, string> = {};
   for (const [key, value] of form.entries()) if (typeof value === "string") fields[key] = value;
