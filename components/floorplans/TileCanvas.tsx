@@ -90,9 +90,9 @@ export const TileCanvas = forwardRef<TileCanvasHandle, Props>(function TileCanva
   useEffect(() => {
     const canvas = canvasRef.current;
     if (!canvas) return;
-    const observer = new ResizeObserver(([entry]) => {
-      const width = Math.round(entry.contentRect.width);
-      setSize({ width, height: heightPx });
+    const observer = new ResizeObserver(() => {
+      const width = canvas.clientWidth;
+      setSize((old) => (old.width === width && old.height === heightPx ? old : { width, height: heightPx }));
       onSize?.(width, heightPx);
     });
     observer.observe(canvas);
@@ -109,20 +109,23 @@ export const TileCanvas = forwardRef<TileCanvasHandle, Props>(function TileCanva
     const ctx = canvas?.getContext("2d");
     if (!canvas || !ctx || size.width === 0) return;
     const frame = requestAnimationFrame(() => {
+      // The bitmap must match the box the canvas has now, or the browser stretches the drawing.
+      const width = canvas.clientWidth;
+      const height = canvas.clientHeight;
       const dpr = window.devicePixelRatio || 1;
-      canvas.width = Math.round(size.width * dpr);
-      canvas.height = Math.round(size.height * dpr);
+      canvas.width = Math.round(width * dpr);
+      canvas.height = Math.round(height * dpr);
       ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
       const palette = readPalette();
-      const v = view ?? fitViewport(plan.rows, plan.cols, size.width, size.height);
+      const v = view ?? fitViewport(plan.rows, plan.cols, width, height);
       const s = v.scale;
-      ctx.clearRect(0, 0, size.width, size.height);
+      ctx.clearRect(0, 0, width, height);
       ctx.fillStyle = palette.free;
       ctx.fillRect(v.offsetX, v.offsetY, plan.cols * s, plan.rows * s);
       const firstRow = Math.max(0, Math.floor(-v.offsetY / s));
-      const lastRow = Math.min(plan.rows - 1, Math.floor((size.height - v.offsetY) / s));
+      const lastRow = Math.min(plan.rows - 1, Math.floor((height - v.offsetY) / s));
       const firstCol = Math.max(0, Math.floor(-v.offsetX / s));
-      const lastCol = Math.min(plan.cols - 1, Math.floor((size.width - v.offsetX) / s));
+      const lastCol = Math.min(plan.cols - 1, Math.floor((width - v.offsetX) / s));
       for (let r = firstRow; r <= lastRow; r++) {
         const y = v.offsetY + r * s;
         for (let c = firstCol; c <= lastCol; c++) {
