@@ -93,6 +93,8 @@ export function FloorplanEditor({ floorplanId, initial: initialView, latestVersi
         e.preventDefault();
         redo();
       } else if (e.key === " ") {
+        // Space still presses a focused button or link; elsewhere it holds the pan.
+        if (e.target instanceof HTMLElement && (e.target.tagName === "BUTTON" || e.target.tagName === "A")) return;
         e.preventDefault();
         setSpaceHeld(true);
       } else if (!mod) {
