@@ -37,6 +37,13 @@ describe("floorplans in the browser", () => {
       await page.getByRole("link", { name: "Import floorplan" }).click();
       await page.waitForURL(`${appUrl}/floorplans/import`);
 
+      // A ragged grid first: the preview says what is wrong and where, and nothing can be imported.
+      await page.getByLabel(/^File/).setInputFiles({ name: "sketch.csv", mimeType: "text/csv", buffer: Buffer.from("0,0,0\n0,0\n") });
+      const previewError = page.getByTestId("preview-error");
+      await expect.poll(() => previewError.textContent().catch(() => ""), { timeout: 10_000 }).toBe("sketch.csv: ragged row: 2 cells where row 0 has 3 at line 2, row 1, col 2.");
+      expect(await page.getByRole("button", { name: "Import floorplan" }).isDisabled()).toBe(true);
+      await page.screenshot({ path: path.join(shots, "import-error.png"), fullPage: true });
+
       await page.getByLabel(/^File/).setInputFiles({ name: "annex-east.png", mimeType: "image/png", buffer: pngOfLines(DRAWING, 5) });
       await page.getByLabel("Name").fill(name);
       await page.getByLabel(/^Tile size/).fill("0.3");
