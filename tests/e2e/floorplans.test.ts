@@ -91,6 +91,9 @@ describe("floorplans in the browser", () => {
       await expect.poll(() => versions.innerText(), { timeout: 10_000 }).toContain("Version 2");
       expect(await versions.innerText()).toContain("Shelf along row 2, dock by the door");
       await page.screenshot({ path: path.join(shots, "edited.png"), fullPage: true });
+      await page.getByRole("button", { name: "Switch to the light theme" }).click();
+      await expect.poll(() => page.evaluate(() => document.documentElement.classList.contains("dark"))).toBe(false);
+      await page.screenshot({ path: path.join(shots, "edited-light.png"), fullPage: true });
 
       const res = await page.request.get(`${appUrl}/api/floorplans/${id}`);
       const { floorplan } = (await res.json()) as { floorplan: { version: number; blocked: number[]; dock: number[]; nogo: number[] } };
