@@ -186,3 +186,15 @@ export function webhookConfig(): WebhookConfig | null {
   if (!c.ALERT_WEBHOOK_URL || !c.ALERT_WEBHOOK_SECRET) return null;
   return { url: c.ALERT_WEBHOOK_URL, secret: c.ALERT_WEBHOOK_SECRET, baseDelayMs: c.ALERT_WEBHOOK_BASE_DELAY_MS, tries: c.ALERT_WEBHOOK_TRIES };
 }
+
+const AlertMailConfigSchema = z.object({
+  /** One alert e-mail per robot within this window; later alerts are counted into the next. */
+  ALERT_MAIL_WINDOW_MS: z.coerce.number().int().min(0).default(10 * 60_000),
+});
+
+/** Alert e-mails' rate limit. */
+export function alertMailConfig(): { windowMs: number } {
+  const parsed = AlertMailConfigSchema.safeParse(process.env);
+  if (!parsed.success) throw new Error(`Tessera cannot start; ALERT_MAIL_WINDOW_MS ${parsed.error.issues[0].message}`);
+  return { windowMs: parsed.data.ALERT_MAIL_WINDOW_MS };
+}

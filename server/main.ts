@@ -2,13 +2,16 @@ import { createServer } from "node:http";
 import next from "next";
 import { Server } from "socket.io";
 import { closeDb } from "../db/client";
+import { attachAlertMail } from "./alerts/alert-mail";
 import { attachAlertWebhook } from "./alerts/webhook";
-import { config, demoErrandsEnabled, fleetConfig, mailConfig, webhookConfig } from "./config";
+import { alertMailConfig, config, demoErrandsEnabled, fleetConfig, mailConfig, publicUrl, webhookConfig } from "./config";
 import { startDemoErrands } from "./fleet/demo-errands";
 import { Fleet } from "./fleet/fleet";
 import { appDb } from "./db";
 import { logger } from "./logger";
 import { startMailCatcher, type MailCatcher } from "./mail/catcher";
+import { sendEach } from "./mail/mailer";
+import { onCallRecipients } from "./mail/recipients";
 import { attachOpsFeed } from "./ops-feed";
 import { registry } from "./registry";
 import { attachRobotLink } from "./robot-link";
@@ -44,7 +47,17 @@ export async function startTessera(): Promise<void> {
   const mail = mailConfig();
   const catcher: MailCatcher | undefined = mail.SMTP_HOST ? undefined : await startMailCatcher(db, mail.MAIL_CATCHER_PORT);
   const stopErrands = demoErrandsEnabled() ? startDemoErrands(fleet) : () => {};
-  const stopReports = [attachAlertWebhook(fleet, webhookConfig()), startShiftDigests(db)];
+  const stopReports = [
+    attachAlertWebhook(fleet, webhookConfig()),
+    startShiftDigests(db),
+    attachAlertMail(fleet, {
+      send: sendEach,
+      recipients: () => onCallRecipients(db),
+      windowMs: alertMailConfig().windowMs,
+      publicUrl: publicUrl(),
+      robotName: (id) => fleet.robots.get(id)?.name,
+    }),
+  ];
 
   await new Promise<void>((resolve) => http.listen(c.PORT, c.HOST, resolve));
   logger.info({ url: `http://${c.HOST}:${c.PORT}`, mode: dev ? "development" : "production" }, "Tessera is listening");

@@ -2,12 +2,11 @@
  * Outgoing mail through nodemailer over SMTP: a real provider when SMTP_HOST is set,
  * otherwise Tessera's own catcher on loopback, so invites work without a mailbox.
  */
-import { and, eq, isNull } from "drizzle-orm";
 import nodemailer, { type Transporter } from "nodemailer";
-import { users } from "../../db/schema";
 import { mailConfig, type MailConfig } from "../config";
 import { appDb } from "../db";
 import { logger } from "../logger";
+import { onCallRecipients } from "./recipients";
 
 export interface OutgoingMail {
   to: string | string[];
@@ -50,10 +49,12 @@ export async function sendMail(mail: OutgoingMail): Promise<void> {
  * Each gets a message of their own, so recipients do not see one another's addresses.
  */
 export async function mailOnCall(subject: string, text: string, html: string): Promise<number> {
-  const recipients = await appDb()
-    .select({ email: users.email })
-    .from(users)
-    .where(and(eq(users.onCall, true), isNull(users.disabledAt)));
-  await Promise.all(recipients.map((r) => sendMail({ to: r.email, subject, text, html })));
+  const recipients = await onCallRecipients(appDb());
+  await sendEach({ to: recipients, subject, text, html });
   return recipients.length;
+}
+
+/** Sends one copy per address, so recipients do not see one another's addresses. */
+export async function sendEach(mail: { to: string[]; subject: string; text: string; html: string }): Promise<void> {
+  await Promise.all(mail.to.map((to) => sendMail({ ...mail, to })));
 }

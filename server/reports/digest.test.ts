@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import type { ShiftFigures, ShiftSummary } from "../../lib/protocol/reports";
 import { composeDigest, deliverDigest } from "./digest";
 import type { MailMessage } from "./mail-port";
-import { mailSender } from "./mail-port";
+import { TesseraError } from "../errors";
 
 const noHolds = { low_certainty: 0, operator: 0, offline: 0, traffic: 0, fault: 0 };
 const figures = (over: Partial<ShiftFigures>): ShiftFigures => ({
@@ -62,7 +62,10 @@ describe("deliverDigest", () => {
     expect(called).toBe(false);
   });
 
-  it("answers 503 until a mailer is wired in", async () => {
-    await expect(deliverDigest(summary, { to: ["lead@site.test"], floorplanName: null, send: mailSender() })).rejects.toMatchObject({ status: 503, code: "unavailable:digest", message: expect.stringContaining("E-mail is not configured") });
+  it("answers 503 when the sender fails, saying the digest was not sent", async () => {
+    const refusing = async () => {
+      throw new TesseraError("unavailable", "digest", "The mail server did not take the digest, so it was not sent.");
+    };
+    await expect(deliverDigest(summary, { to: ["lead@site.test"], floorplanName: null, send: refusing })).rejects.toMatchObject({ status: 503, code: "unavailable:digest", message: expect.stringContaining("not sent") });
   });
 });

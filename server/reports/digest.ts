@@ -10,7 +10,7 @@ import { formatCertainty, formatDurationS, formatInstantUtc, HOLD_REASON_WORDS }
 import { HOLD_REASONS } from "../../lib/vocabulary";
 import { TesseraError } from "../errors";
 import type { MailMessage, MailSender } from "./mail-port";
-import { onCallRecipients } from "./mail-port";
+import { onCallRecipients } from "../mail/recipients";
 import { shiftSummary } from "./shift";
 
 export interface Digest {

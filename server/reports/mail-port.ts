@@ -1,12 +1,9 @@
 /**
- * Where the digest gets its mail sender and its recipients. Until a mailer is set up the
- * sender refuses with 503, so "Send digest now" says plainly that e-mail is off rather
- * than pretending to have sent anything.
+ * Where the digest gets its mail sender: the process's mailer (a real provider, or the
+ * built-in catcher that /mail shows), one copy per on-call address.
  */
-import { and, eq, isNull } from "drizzle-orm";
-import type { Db } from "../../db/client";
-import { users } from "../../db/schema";
 import { TesseraError } from "../errors";
+import { sendEach } from "../mail/mailer";
 
 export interface MailMessage {
   to: string[];
@@ -17,21 +14,13 @@ export interface MailMessage {
 
 export type MailSender = (message: MailMessage) => Promise<void>;
 
-const unconfigured: MailSender = async () => {
-  throw new TesseraError("unavailable", "digest", "E-mail is not configured on this server, so the digest was not sent.");
-};
-
-/** The process's mail sender. */
+/** The process's mail sender; an SMTP failure becomes a 503 that says the digest was not sent. */
 export function mailSender(): MailSender {
-  return unconfigured;
-}
-
-/** Addresses of the enabled users marked on call, the digest's recipients. */
-export async function onCallRecipients(db: Db): Promise<string[]> {
-  const rows = await db
-    .select({ email: users.email })
-    .from(users)
-    .where(and(eq(users.onCall, true), isNull(users.disabledAt)))
-    .orderBy(users.email);
-  return rows.map((r) => r.email);
+  return async (message) => {
+    try {
+      await sendEach(message);
+    } catch (cause) {
+      throw new TesseraError("unavailable", "digest", "The mail server did not take the digest, so it was not sent; the server log has the reason.", { cause });
+    }
+  };
 }

@@ -98,7 +98,7 @@ describe("shift summary routes", () => {
     expect((await fetch(`${appUrl}/api/reports/shift`)).status).toBe(401);
   });
 
-  it("sends the digest only for operators, and says e-mail is not configured", async () => {
+  it("sends the digest only for operators, and to every on-call user through the mail catcher", async () => {
     const post = (cookie: string, body: unknown) =>
       fetch(`${appUrl}/api/reports/shift/digest`, { method: "POST", headers: { cookie, "content-type": "application/json" }, body: JSON.stringify(body) });
     expect((await post(viewer, {})).status).toBe(403);
@@ -106,9 +106,17 @@ describe("shift summary routes", () => {
     expect(nobody.status).toBe(422);
     expect(await nobody.json()).toMatchObject({ error: { code: "unprocessable:digest", message: expect.stringContaining("on-call list") } });
     await db.update(users).set({ onCall: true }).where(eq(users.email, "viewer@tessera.test"));
-    const unwired = await post(operator, { floorplan: floorplanId });
-    expect(unwired.status).toBe(503);
-    expect(await unwired.json()).toMatchObject({ error: { code: "unavailable:digest", message: expect.stringContaining("E-mail is not configured") } });
+    const sent = await post(operator, { floorplan: floorplanId });
+    expect(sent.status).toBe(200);
+    const answer = (await sent.json()) as { to: string[]; subject: string };
+    expect(answer.to).toEqual(["viewer@tessera.test"]);
+    const admin = await signInAs(appUrl, "admin@tessera.test");
+    await expect
+      .poll(async () => {
+        const mail = (await (await fetch(`${appUrl}/api/mail?limit=100`, { headers: { cookie: admin } })).json()) as { items: { to: string[]; subject: string; text: string }[] };
+        return mail.items.filter((m) => m.subject === answer.subject && m.to.includes("viewer@tessera.test")).length;
+      }, { timeout: 10_000 })
+      .toBe(1);
     const bad = await post(operator, { from: "soon" });
     expect(bad.status).toBe(400);
   });
@@ -143,7 +151,7 @@ describe("reports page", () => {
       await expect.poll(() => table.getByRole("row").nth(1).innerText()).toMatch(/^Heron/);
       await page.screenshot({ path: path.join(shots, "reports-dark.png"), fullPage: true });
       await page.getByRole("button", { name: "Send digest now" }).click();
-      await expect.poll(() => page.getByRole("status").innerText()).toMatch(/E-mail is not configured|on-call list/);
+      await expect.poll(() => page.getByRole("status").innerText(), { timeout: 10_000 }).toMatch(/Digest sent to 1 on call|on-call list/);
       await page.getByRole("button", { name: "Last 7 days" }).click();
       await expect.poll(() => figures.innerText()).toContain("Missions started\n6");
       await page.evaluate(() => document.documentElement.classList.remove("dark"));
