@@ -263,3 +263,23 @@ describe("audit", () => {
     expect(crew.AuditQuery.safeParse({ from: "last tuesday" }).success).toBe(false);
   });
 });
+
+describe("reset request limit", () => {
+  // Last in the file: the overall limit is per process and would refuse later requests.
+  it("refuses the 31st reset request within a minute with 429", async () => {
+    let accepted = 0;
+    let refused: Awaited<ReturnType<typeof errorOf>> | undefined;
+    for (let i = 0; i < 40 && !refused; i += 1) {
+      try {
+        await crew.requestReset(address(`flood-${i}`));
+        accepted += 1;
+      } catch (err) {
+        refused = { status: (err as { status: number }).status, code: (err as { code: string }).code, message: (err as Error).message };
+      }
+    }
+    // Earlier tests in this file used a few of the 30.
+    expect(accepted).toBeLessThanOrEqual(30);
+    expect(accepted).toBeGreaterThanOrEqual(20);
+    expect(refused).toEqual({ status: 429, code: "rate_limited:auth-links", message: "Too many reset requests just now; wait a minute and try again." });
+  });
+});
