@@ -130,6 +130,26 @@ describe("invites", () => {
   });
 });
 
+describe("mail failures", () => {
+  it("keeps the invited user when the mail cannot be sent, says so with 503, and the resend works later", async () => {
+    const email = address("unmailed");
+    process.env.MAIL_CATCHER_PORT = "9";
+    let failure: Awaited<ReturnType<typeof errorOf>>;
+    try {
+      failure = await errorOf(crew.inviteMember(admin, { email, name: "Un Mailed", role: "viewer" }));
+    } finally {
+      process.env.MAIL_CATCHER_PORT = String(TEST_SMTP_PORT);
+    }
+    expect(failure).toMatchObject({ status: 503, code: "unavailable:users" });
+    expect(failure.message).toBe(`The invite for ${email} is saved, but the e-mail to ${email} could not be sent; use Resend invite on the crew page to try again.`);
+    const member = (await crew.listCrew()).find((m) => m.email === email)!;
+    expect(member).toMatchObject({ state: "invited", role: "viewer" });
+    expect(await crew.sendMemberLink(admin, member.id)).toEqual({ kind: "invite", email });
+    await crew.acceptLink(linkToken((await mailTo(db, email)).text, "invite"), "mailed-at-last");
+    expect(await auth.verifyCredentials({ email, password: "mailed-at-last" })).not.toBeNull();
+  });
+});
+
 describe("roles, deactivation and the last admin", () => {
   it("applies a role change to the user's next request", async () => {
     const user = await joined("promoted", "viewer");
