@@ -102,6 +102,8 @@ describe("shift summary routes", () => {
     const post = (cookie: string, body: unknown) =>
       fetch(`${appUrl}/api/reports/shift/digest`, { method: "POST", headers: { cookie, "content-type": "application/json" }, body: JSON.stringify(body) });
     expect((await post(viewer, {})).status).toBe(403);
+    // Other suites may have left someone on call; this test sets the list it needs.
+    await db.update(users).set({ onCall: false });
     const nobody = await post(operator, { floorplan: floorplanId });
     expect(nobody.status).toBe(422);
     expect(await nobody.json()).toMatchObject({ error: { code: "unprocessable:digest", message: expect.stringContaining("on-call list") } });

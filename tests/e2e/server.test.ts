@@ -2,6 +2,7 @@
 import { io as connect } from "socket.io-client";
 import { afterAll, describe, expect, inject, it } from "vitest";
 import { closeDb, openDb } from "../../db/client";
+import { withBrowser } from "../support/browser";
 import { insertTestRobot } from "../support/robot-fixtures";
 import { signInAs } from "../support/session";
 
@@ -56,6 +57,36 @@ describe("server", () => {
   it("refuses a registered robot presenting a wrong key with connect_error bad_key", async () => {
     const robot = await insertTestRobot(openDb(inject("databaseUrl")));
     expect(await connectError("/robot", { auth: { robot: robot.id, key: "tsk_wrong" } })).toEqual({ code: "bad_key" });
+  });
+
+  it("serves pages and routes with a content security policy and the other security headers", async () => {
+    for (const path of ["/sign-in", "/api/health"]) {
+      const res = await fetch(`${appUrl}${path}`);
+      const csp = res.headers.get("content-security-policy") ?? "";
+      expect(csp, path).toContain("default-src 'self'");
+      expect(csp, path).toContain("frame-ancestors 'none'");
+      expect(csp, path).not.toContain("unsafe-eval");
+      expect(res.headers.get("x-content-type-options"), path).toBe("nosniff");
+      expect(res.headers.get("x-frame-options"), path).toBe("DENY");
+    }
+  });
+
+  it("runs the sign-in page and the live floor with no content security policy violation", async () => {
+    await withBrowser(async (context) => {
+      const page = await context.newPage();
+      await page.addInitScript(() => {
+        const w = window as unknown as { violations: string[] };
+        w.violations = [];
+        document.addEventListener("securitypolicyviolation", (e) => w.violations.push(`${e.violatedDirective} ${e.blockedURI}`));
+      });
+      await page.goto(`${appUrl}/floor`);
+      await page.getByLabel("E-mail").fill("operator@tessera.test");
+      await page.getByLabel("Password").fill("demo-tessera");
+      await page.getByRole("button", { name: "Sign in" }).click();
+      await page.waitForURL(/\/floor/);
+      await page.locator('[data-testid="connection-state"][data-connection="live"]').waitFor({ timeout: 20_000 });
+      expect(await page.evaluate(() => (window as unknown as { violations: string[] }).violations)).toEqual([]);
+    });
   });
 
   it("refuses a dashboard socket without a session", async () => {
