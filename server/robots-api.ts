@@ -9,7 +9,9 @@ import { SensorSchema } from "../lib/protocol";
 import { DRIVES } from "../lib/vocabulary";
 import { appDb } from "./db";
 import { TesseraError } from "./errors";
+import type { Actor } from "./fleet/fleet";
 import { runningFleet } from "./registry";
+import { writeAudit } from "./roster";
 
 export const RegisterRobotSchema = z.object({
   name: z.string().trim().min(1).max(80),
@@ -19,7 +21,7 @@ export const RegisterRobotSchema = z.object({
   simulated: z.boolean().optional(),
 });
 
-export async function registerRobot(input: z.infer<typeof RegisterRobotSchema>) {
+export async function registerRobot(input: z.infer<typeof RegisterRobotSchema>, actor: Actor) {
   const db = appDb();
   const floorplanId = input.floorplanId ?? (await defaultFloorplanId(db));
   if (floorplanId === undefined) throw new TesseraError("unprocessable", "robots", "There is no floorplan to put the robot on; create one first.");
@@ -42,5 +44,6 @@ export async function registerRobot(input: z.infer<typeof RegisterRobotSchema>) 
   });
   const row = (await db.select().from(robots).where(eq(robots.id, id)).limit(1))[0];
   await runningFleet().register(row);
+  await writeAudit(db, actor, "register", id, { name: row.name, drive: row.drive, floorplanId, simulated: row.simulated });
   return { robot: { id, name: row.name, drive: row.drive, sensors: row.sensors, floorplanId, simulated: row.simulated }, key };
 }
