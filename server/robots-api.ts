@@ -1,27 +1,19 @@
 /** Registering robots: the key is generated here, returned once, and stored only hashed. */
 import { randomBytes } from "node:crypto";
 import { eq } from "drizzle-orm";
-import { z } from "zod";
 import { defaultFloorplanId } from "../db/queries/floorplans";
 import { generateRobotKey, hashRobotKey } from "../db/robot-keys";
 import { floorplans, robots } from "../db/schema";
-import { SensorSchema } from "../lib/protocol";
-import { DRIVES } from "../lib/vocabulary";
+import { RegisterRobotSchema, type RegisterRobotInput } from "../lib/roster";
 import { appDb } from "./db";
 import { TesseraError } from "./errors";
 import type { Actor } from "./fleet/fleet";
 import { runningFleet } from "./registry";
 import { writeAudit } from "./roster";
 
-export const RegisterRobotSchema = z.object({
-  name: z.string().trim().min(1).max(80),
-  drive: z.enum(DRIVES),
-  sensors: z.array(SensorSchema).max(16),
-  floorplanId: z.number().int().positive().optional(),
-  simulated: z.boolean().optional(),
-});
+export { RegisterRobotSchema };
 
-export async function registerRobot(input: z.infer<typeof RegisterRobotSchema>, actor: Actor) {
+export async function registerRobot(input: RegisterRobotInput, actor: Actor) {
   const db = appDb();
   const floorplanId = input.floorplanId ?? (await defaultFloorplanId(db));
   if (floorplanId === undefined) throw new TesseraError("unprocessable", "robots", "There is no floorplan to put the robot on; create one first.");
@@ -29,8 +21,6 @@ export async function registerRobot(input: z.infer<typeof RegisterRobotSchema>, 
     const exists = await db.select({ id: floorplans.id }).from(floorplans).where(eq(floorplans.id, input.floorplanId)).limit(1);
     if (!exists.length) throw new TesseraError("unprocessable", "robots", `There is no floorplan ${input.floorplanId}.`, { fields: { floorplanId: ["unknown floorplan"] } });
   }
-  const ids = new Set(input.sensors.map((s) => s.id));
-  if (ids.size !== input.sensors.length) throw new TesseraError("bad_request", "robots", "Sensor ids must be unique.", { fields: { sensors: ["duplicate sensor id"] } });
   const id = `rb-${randomBytes(5).toString("hex")}`;
   const key = generateRobotKey();
   await db.insert(robots).values({

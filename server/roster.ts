@@ -8,7 +8,16 @@ import type { Db } from "../db/client";
 import { listFloorplans } from "../db/queries/floorplans";
 import { generateRobotKey, hashRobotKey } from "../db/robot-keys";
 import { audit, beliefs, missions, robots, type Robot } from "../db/schema";
-import { defaultRobotSettings, resolveRobotSettings, RobotSettingsSchema, type RobotSettings } from "../lib/roster";
+import {
+  defaultRobotSettings,
+  resolveRobotSettings,
+  RobotSettingsSchema,
+  type RobotDetailView,
+  type RobotSettings,
+  type RosterEntry,
+  type SettingsView,
+} from "../lib/roster";
+import type { SensorSpec } from "../lib/sensing";
 import { appDb } from "./db";
 import { TesseraError, zodFields } from "./errors";
 import type { Actor } from "./fleet/fleet";
@@ -44,14 +53,14 @@ function liveFrame(robotId: string) {
   return runtime ? fleet.frame(runtime) : null;
 }
 
-function rosterEntry(row: PublicRobot, floorplanNames: Map<number, string>) {
+function rosterEntry(row: PublicRobot, floorplanNames: Map<number, string>): RosterEntry {
   const frame = liveFrame(row.id);
   return {
     id: row.id,
     name: row.name,
     drive: row.drive,
     model: row.model,
-    sensors: row.sensors,
+    sensors: row.sensors as SensorSpec[],
     simulated: row.simulated,
     floorplanId: row.floorplanId,
     floorplanName: row.floorplanId === null ? null : (floorplanNames.get(row.floorplanId) ?? null),
@@ -62,8 +71,6 @@ function rosterEntry(row: PublicRobot, floorplanNames: Map<number, string>) {
     createdAt: row.createdAt.getTime(),
   };
 }
-
-export type RosterEntry = ReturnType<typeof rosterEntry>;
 
 /** Every robot of the roster, retired ones only when asked, newest last. */
 export async function listRoster(opts: { retired?: boolean } = {}): Promise<RosterEntry[]> {
@@ -90,7 +97,7 @@ async function activeRobot(db: Db, id: string, surface: string): Promise<Robot> 
 }
 
 /** One robot for its page: roster entry, live frame, recent missions and certainty over time. */
-export async function robotDetail(id: string) {
+export async function robotDetail(id: string): Promise<RobotDetailView> {
   const db = appDb();
   const row = await robotRow(db, id);
   const names = new Map((await listFloorplans(db)).map((f) => [f.id, f.name]));
@@ -123,8 +130,6 @@ export async function robotDetail(id: string) {
   };
 }
 
-export type RobotDetail = Awaited<ReturnType<typeof robotDetail>>;
-
 /**
  * Issues a new key: the old hash is replaced before the live link is closed, so the robot's
  * reconnect with the old key is refused with `bad_key`. The new key is returned this once.
@@ -150,12 +155,10 @@ export async function retireRobot(id: string, actor: Actor): Promise<{ id: strin
   return { id, retiredAt: retiredAt.getTime() };
 }
 
-function settingsView(row: Robot) {
+function settingsView(row: Robot): SettingsView {
   const { settings, custom } = resolveRobotSettings(row.drive, row.settings);
   return { robotId: row.id, drive: row.drive, settings, defaults: defaultRobotSettings(row.drive), custom };
 }
-
-export type SettingsView = ReturnType<typeof settingsView>;
 
 /** The tuning a robot runs with, the defaults of its drive, and which sections are its own. */
 export async function robotSettings(id: string): Promise<SettingsView> {

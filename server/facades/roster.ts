@@ -10,7 +10,5 @@ export {
   robotSettings,
   rotateRobotKey,
   saveRobotSettings,
-  type RobotDetail,
-  type RosterEntry,
-  type SettingsView,
 } from "../roster";
+export { isTesseraError } from "../errors";
