@@ -3,6 +3,7 @@
  * key rotation, retirement and per-robot tuning. Every change is written to the audit
  * table and applied to the running fleet at once.
  */
+import { isDeepStrictEqual } from "node:util";
 import { and, desc, eq, isNull } from "drizzle-orm";
 import type { Db } from "../db/client";
 import { listFloorplans } from "../db/queries/floorplans";
@@ -156,8 +157,10 @@ export async function retireRobot(id: string, actor: Actor): Promise<{ id: strin
 }
 
 function settingsView(row: Robot): SettingsView {
-  const { settings, custom } = resolveRobotSettings(row.drive, row.settings);
-  return { robotId: row.id, drive: row.drive, settings, defaults: defaultRobotSettings(row.drive), custom };
+  const { settings } = resolveRobotSettings(row.drive, row.settings);
+  const defaults = defaultRobotSettings(row.drive);
+  const custom = (Object.keys(defaults) as (keyof RobotSettings)[]).filter((k) => !isDeepStrictEqual(settings[k], defaults[k]));
+  return { robotId: row.id, drive: row.drive, settings, defaults, custom };
 }
 
 /** The tuning a robot runs with, the defaults of its drive, and which sections are its own. */
@@ -179,7 +182,7 @@ export async function saveRobotSettings(id: string, settings: RobotSettings, act
   const before = resolveRobotSettings(row.drive, row.settings).settings;
   await db.update(robots).set({ settings }).where(eq(robots.id, id));
   await runningFleet().applySettings(id, settings);
-  const changed = (Object.keys(settings) as (keyof RobotSettings)[]).filter((k) => JSON.stringify(settings[k]) !== JSON.stringify(before[k]));
+  const changed = (Object.keys(settings) as (keyof RobotSettings)[]).filter((k) => !isDeepStrictEqual(settings[k], before[k]));
   await writeAudit(db, actor, "change_settings", id, { changed, settings });
   return settingsView({ ...row, settings });
 }

@@ -57,7 +57,7 @@ function RobotView({ initial, settings, canEdit, levels }: Props) {
         {robot.retiredAt !== null && <span className="rounded border border-coral/60 px-1.5 text-xs text-coral">Retired {when(robot.retiredAt)} UTC</span>}
       </div>
 
-      <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_minmax(0,1.3fr)]">
+      <div className="grid items-start gap-6 lg:grid-cols-[minmax(0,1fr)_minmax(0,1.3fr)]">
         <section aria-labelledby="robot-state-title" className="space-y-3 rounded-md border border-ink-700 bg-ink-900 p-4">
           <h2 id="robot-state-title" className="text-sm font-semibold">
             Current state

@@ -56,6 +56,8 @@ const GROUPS: { title: string; note: string; fields: Field[] }[] = [
   },
 ];
 
+const SECTION_NAMES: Record<keyof RobotSettings, string> = { motion: "motion model", sensing: "sensor model", gains: "heading gains" };
+
 /** Group-level errors (weights that do not add up) sit on these paths rather than on one field. */
 const GROUP_PATHS: Path[] = ["motion.forward", "motion.turn", "sensing.range.weights"];
 
@@ -112,7 +114,7 @@ export function SettingsForm({ view, canEdit, online }: { view: SettingsView; ca
   return (
     <form aria-label="Robot settings" onSubmit={(e) => void save(e)} className="space-y-4" noValidate>
       <p className="text-xs text-ink-500">
-        {custom.length === 0 ? "All defaults of the library for this drive." : `Tuned for this robot: ${custom.join(", ")}; the rest are defaults.`}
+        {custom.length === 0 ? "All defaults of the library for this drive." : `Differs from the defaults: ${custom.map((k) => SECTION_NAMES[k]).join(", ")}.`}
       </p>
       {GROUPS.map((group) => (
         <fieldset key={group.title} className="rounded-md border border-ink-700 p-3">

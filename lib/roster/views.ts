@@ -49,7 +49,7 @@ export interface RobotDetailView {
   certainty: CertaintyPoint[];
 }
 
-/** The tuning a robot runs with, the defaults of its drive, and which sections are its own. */
+/** The tuning a robot runs with, the defaults of its drive, and the sections that differ from them. */
 export interface SettingsView {
   robotId: string;
   drive: Drive;

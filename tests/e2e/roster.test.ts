@@ -8,8 +8,10 @@ import path from "node:path";
 import type { Page } from "playwright-core";
 import { io as connect } from "socket.io-client";
 import { describe, expect, inject, it } from "vitest";
+import { DEMO_SENSORS } from "../../db/seed";
 import { ROOT } from "../../scripts/local-env";
 import { withBrowser } from "../support/browser";
+import { signInAs } from "../support/session";
 
 const appUrl = inject("appUrl");
 const shots = path.join(ROOT, "test-results", "roster");
@@ -90,7 +92,7 @@ describe("roster", () => {
       expect(await page.getByText("us-left: range, bearing 75°, up to 3 m").count()).toBe(1);
       expect(await page.getByText("us-rear: range, bearing 180°, up to 3 m").count()).toBe(1);
       const settings = page.getByRole("form", { name: "Robot settings" });
-      expect(await settings.getByLabel("Turn: as told").inputValue()).toBe("0.8");
+      await expect.poll(() => settings.getByLabel("Turn: as told").inputValue()).toBe("0.8");
       expect(await page.content()).not.toContain(key);
 
       await settings.getByLabel("kp").fill("4.5");
@@ -103,10 +105,11 @@ describe("roster", () => {
       expect(await page.getByRole("note", { name: "Safety caution" }).count()).toBe(1);
       await page.screenshot({ path: path.join(shots, "robot-page.png"), fullPage: true });
       await page.reload();
-      expect(await page.getByRole("form", { name: "Robot settings" }).getByLabel("kp").inputValue()).toBe("4.5");
+      // The form fills its fields once it is hydrated.
+      await expect.poll(() => page.getByRole("form", { name: "Robot settings" }).getByLabel("kp").inputValue()).toBe("4.5");
       await page.getByRole("form", { name: "Robot settings" }).getByRole("button", { name: "Reset to defaults" }).click();
       await page.getByText("Back to the defaults for this drive, and applied.").waitFor();
-      expect(await page.getByRole("form", { name: "Robot settings" }).getByLabel("kp").inputValue()).toBe("6");
+      await expect.poll(() => page.getByRole("form", { name: "Robot settings" }).getByLabel("kp").inputValue()).toBe("6");
 
       await page.goto(`${appUrl}/roster`);
       await page.getByRole("button", { name: "Rotate key of Heron e2e" }).click();
@@ -123,6 +126,53 @@ describe("roster", () => {
       await expect.poll(() => page.getByRole("link", { name: "Heron e2e" }).count()).toBe(0);
       expect(await tryKey(robotId, newKey)).toBe("retired");
     });
+  });
+
+  it("shows a viewer a robot's missions and recent certainty", async () => {
+    const admin = await signInAs(appUrl, "admin@tessera.test");
+    const operator = await signInAs(appUrl, "operator@tessera.test");
+    const post = async (path: string, cookie: string, body: unknown) => {
+      const res = await fetch(`${appUrl}${path}`, { method: "POST", headers: { "content-type": "application/json", cookie }, body: JSON.stringify(body) });
+      return (await res.json()) as Record<string, unknown>;
+    };
+    const made = (await post("/api/robots", admin, { name: "Plover e2e", drive: "differential", sensors: DEMO_SENSORS, simulated: true })) as { robot: { id: string }; key: string };
+    const id = made.robot.id;
+    const socket = connect(`${appUrl}/robot`, { auth: { robot: id, key: made.key }, transports: ["websocket"] });
+    try {
+      let seq = 1;
+      await socket.timeout(5000).emitWithAck("hello", { seq, at: Date.now(), protocol: 1, model: "probe", drive: "differential", sensors: DEMO_SENSORS });
+      // Enough sensed messages for a few belief snapshots (one every 20 fused steps), with the robot's view changing.
+      for (let i = 0; i < 42; i++) {
+        const readings = [
+          { sensor: "us-front", rangeM: 0.3 + (i % 5) * 0.3 },
+          { sensor: "us-left", rangeM: 0.46 },
+          { sensor: "us-right", rangeM: 0.15 + (i % 3) * 0.3 },
+          { sensor: "floor", mark: 0 },
+        ];
+        await socket.timeout(5000).emitWithAck("sensed", { seq: ++seq, at: Date.now(), readings });
+      }
+      await post(`/api/robots/${id}/relocate`, operator, { row: 10, col: 16, heading: "W" });
+      const dispatched = (await post("/api/missions", operator, { robotId: id, goal: { row: 10, col: 4 } })) as { mission: { id: number } };
+      await post(`/api/robots/${id}/cancel`, operator, {});
+
+      await withBrowser(async (context) => {
+        const page = await context.newPage();
+        await page.setViewportSize({ width: 1280, height: 900 });
+        await signIn(page, "viewer@tessera.test");
+        await page.goto(`${appUrl}/roster/${id}`);
+        await page.getByRole("heading", { name: "Plover e2e" }).waitFor();
+        expect(await page.getByTestId("robot-state").innerText()).toContain("(10, 16) W");
+        const chart = page.getByRole("img", { name: /Certainty over the last \d+ belief snapshots/ });
+        await chart.waitFor();
+        expect(Number((await chart.getAttribute("aria-label"))!.match(/last (\d+)/)![1])).toBeGreaterThanOrEqual(4);
+        const link = page.getByRole("table", { name: "Missions of this robot" }).getByRole("link", { name: `#${dispatched.mission.id}` });
+        expect(await link.getAttribute("href")).toBe(`/logbook/${dispatched.mission.id}`);
+        await page.screenshot({ path: path.join(shots, "robot-page-certainty.png"), fullPage: true });
+      });
+    } finally {
+      socket.close();
+      await post(`/api/robots/${id}/retire`, admin, {});
+    }
   });
 
   it("shows a viewer the roster without the admin controls", async () => {

@@ -15,6 +15,7 @@ import { createFilter } from "../../lib/belief";
 import { TuneSchema, type ServerMessage } from "../../lib/protocol";
 import { defaultRobotSettings, motionModelOf, type RobotSettings } from "../../lib/roster";
 import type { Role } from "../../lib/vocabulary";
+import { replayMission } from "../../server/fleet/replay";
 import { registry } from "../../server/registry";
 import { connectRobot, helloPayload, startTestServer, TEST_SENSORS, type TestServer } from "../support/fleet-server";
 
@@ -271,6 +272,10 @@ describe("retiring a robot", () => {
     expect(await handshake(id, made.key)).toEqual({ connected: false, data: { code: "retired" } });
     const kept = (await server.db.select().from(missions).where(eq(missions.id, mission.id)))[0];
     expect(kept.state).toBe("aborted");
+    const replayed = await replayMission(server.fleet, mission.id, 0);
+    expect(replayed.mission.id).toBe(mission.id);
+    expect(replayed.certainty.row).toBe(10);
+    expect(replayed.certainty.col).toBe(16);
 
     const list = await call(routes.list.GET);
     expect(list.body.robots.map((r) => r.id)).not.toContain(id);
