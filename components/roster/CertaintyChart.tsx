@@ -9,8 +9,10 @@ const WIDTH = 560;
 const HEIGHT = 160;
 const MARGIN = { top: 8, right: 12, bottom: 24, left: 36 };
 
-function clock(at: Date | number | { valueOf(): number }): string {
-  return new Date(Number(at.valueOf())).toISOString().slice(11, 16);
+/** UTC clock labels: with seconds when the chart spans under ten minutes. */
+function clockFormat(spanMs: number) {
+  const end = spanMs < 10 * 60_000 ? 19 : 16;
+  return (at: Date | number | { valueOf(): number }) => new Date(Number(at.valueOf())).toISOString().slice(11, end);
 }
 
 /**
@@ -35,7 +37,7 @@ export function CertaintyChart({ points, holdBelow, releaseAbove }: { points: Ce
         <LinePath data={points} x={(p) => x(new Date(p.at))} y={(p) => y(p.tileMass)} className="stroke-tide" strokeWidth={1.5} fill="none" />
         <g className="text-ink-500">
           <AxisLeft scale={y} left={MARGIN.left} numTicks={5} tickFormat={(v) => `${Math.round(Number(v) * 100)}%`} stroke="currentColor" tickStroke="currentColor" tickLabelProps={{ fill: "currentColor", fontSize: 10 }} />
-          <AxisBottom scale={x} top={HEIGHT - MARGIN.bottom} numTicks={6} tickFormat={clock} stroke="currentColor" tickStroke="currentColor" tickLabelProps={{ fill: "currentColor", fontSize: 10 }} />
+          <AxisBottom scale={x} top={HEIGHT - MARGIN.bottom} numTicks={5} tickFormat={clockFormat(last - first)} stroke="currentColor" tickStroke="currentColor" tickLabelProps={{ fill: "currentColor", fontSize: 10 }} />
         </g>
       </svg>
       <figcaption className="text-xs text-ink-500">Certainty at the last {points.length} belief snapshots (UTC); dashed: hold under {Math.round(holdBelow * 100)} %, release above {Math.round(releaseAbove * 100)} %.</figcaption>

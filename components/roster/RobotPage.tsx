@@ -64,7 +64,7 @@ function RobotView({ initial, settings, canEdit, levels }: Props) {
           </h2>
           <dl className="grid grid-cols-2 gap-3" data-testid="robot-state">
             <Fact label="State">{frame ? <StatePill robot={frame} /> : <span className="text-ink-500">Off the live floor</span>}</Fact>
-            <Fact label="Link">{robot.online ? "Connected" : "Not connected"}</Fact>
+            <Fact label="Link">{robot.online ? "Online" : "Offline: no recent heartbeat"}</Fact>
             <Fact label="Most likely pose">{estimate ? <span className="font-mono">({estimate.row}, {estimate.col}) {estimate.heading}</span> : "—"}</Fact>
             <Fact label="Certainty">
               <Certainty value={estimate?.tileMass ?? null} />
