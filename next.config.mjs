@@ -3,7 +3,7 @@ const nextConfig = {
   reactStrictMode: true,
   poweredByHeader: false,
   // The custom server (server/index.ts) owns the HTTP listener; Next only renders.
-  serverExternalPackages: ["mysql2", "pino", "pino-pretty", "bcryptjs", "socket.io"],
+  serverExternalPackages: ["mysql2", "pino", "pino-pretty", "bcryptjs", "socket.io", "nodemailer"],
   // `npm test` runs tsc over the whole project; the build need not type-check it twice.
   typescript: { ignoreBuildErrors: true },
   experimental: {

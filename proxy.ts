@@ -4,5 +4,5 @@ import { withAuth } from "next-auth/middleware";
 export default withAuth({ pages: { signIn: "/sign-in" } });
 
 export const config = {
-  matcher: ["/", "/floor/:path*", "/logbook/:path*", "/reports/:path*", "/floorplans/:path*", "/roster/:path*", "/crew/:path*"],
+  matcher: ["/", "/floor/:path*", "/logbook/:path*", "/reports/:path*", "/floorplans/:path*", "/roster/:path*", "/crew/:path*", "/audit/:path*", "/mail/:path*", "/profile/:path*"],
 };

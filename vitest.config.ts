@@ -28,6 +28,8 @@ export default defineConfig({
           environment: "node",
           globalSetup: ["tests/support/global-db.ts"],
           fileParallelism: false,
+          // The export test measures live heap, which needs a collection before each reading.
+          execArgv: ["--expose-gc"],
           testTimeout: 30_000,
           hookTimeout: 60_000,
         },

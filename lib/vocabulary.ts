@@ -52,5 +52,5 @@ export type AckCode = (typeof ACK_CODES)[number];
 export const HANDSHAKE_CODES = ["bad_key", "unknown_robot", "retired", "already_connected"] as const;
 export type HandshakeCode = (typeof HANDSHAKE_CODES)[number];
 
-export const ALERT_KINDS = ["low_certainty", "offline", "fault", "traffic", "battery"] as const;
+export const ALERT_KINDS = ["low_certainty", "offline", "fault", "traffic", "battery", "mission_failed"] as const;
 export type AlertKind = (typeof ALERT_KINDS)[number];

@@ -118,6 +118,9 @@ if (await waitForHealth()) {
     `\nTessera is up at ${publicUrl}\n  Demo accounts (password "${demoPassword}"):\n${accounts}\n` +
       "  Moving robots can hurt people: keep people clear of robot paths and a physical emergency stop within reach.\n" +
       "  Four simulated robots run the demo; type `help` here for fault injection (kidnap, stall, drop, drain).\n" +
+      (process.env.SMTP_HOST
+        ? `  Mail goes out through ${process.env.SMTP_HOST}.\n`
+        : "  Mail (invites, resets) is caught on loopback, not delivered: admins read it under Sent mail (/mail).\n") +
       "  Press Ctrl+C to stop.\n",
   );
 } else {

@@ -111,7 +111,90 @@ export function fleetConfig(overrides: Partial<FleetConfig> = {}): FleetConfig {
   return { ...parsed.data, ...overrides };
 }
 
+const MailConfigSchema = z.object({
+  /** A real provider's SMTP host; unset means Tessera's own catcher on loopback (npm start, tests). */
+  SMTP_HOST: z.string().min(1).optional(),
+  SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(587),
+  SMTP_USER: z.string().min(1).optional(),
+  SMTP_PASSWORD: z.string().min(1).optional(),
+  MAIL_FROM: z.string().min(3).default("Tessera <tessera@localhost>"),
+  /** Port of the loopback SMTP catcher that the server runs when SMTP_HOST is unset. */
+  MAIL_CATCHER_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
+});
+
+export type MailConfig = z.infer<typeof MailConfigSchema>;
+
+/** Outgoing mail settings; an empty variable counts as unset. */
+export function mailConfig(): MailConfig {
+  const raw = Object.fromEntries(Object.keys(MailConfigSchema.shape).flatMap((name) => (process.env[name] ? [[name, process.env[name]]] : [])));
+  const parsed = MailConfigSchema.safeParse(raw);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((issue) => `  ${issue.path.join(".")}: ${issue.message}`);
+    throw new Error(`Tessera cannot send mail; fix these environment variables:\n${lines.join("\n")}`);
+  }
+  return parsed.data;
+}
+
 /** Whether the demo scheduler sends idle simulated robots on errands; `npm start` turns it on unless TESSERA_DEMO_ERRANDS=off. */
 export function demoErrandsEnabled(): boolean {
   return process.env.TESSERA_DEMO_ERRANDS === "on";
+}
+
+const ReportsConfigSchema = z.object({
+  /** Local wall-clock time at which each shift ends and its digest goes out; unset sends none. */
+  TESSERA_SHIFT_END: z
+    .string()
+    .regex(/^([01]\d|2[0-3]):[0-5]\d$/, "must be a local time as HH:MM, 00:00 to 23:59")
+    .optional(),
+});
+
+/** The end-of-shift digest's schedule. */
+export function reportsConfig(): { shiftEnd: string | null } {
+  const parsed = ReportsConfigSchema.safeParse(process.env);
+  if (!parsed.success) throw new Error(`Tessera cannot start; TESSERA_SHIFT_END ${parsed.error.issues[0].message}`);
+  return { shiftEnd: parsed.data.TESSERA_SHIFT_END ?? null };
+}
+
+const WebhookConfigSchema = z
+  .object({
+    ALERT_WEBHOOK_URL: z.url({ protocol: /^https?$/, message: "must be an http(s) URL" }).optional(),
+    ALERT_WEBHOOK_SECRET: z.string().min(16, "must be at least 16 characters").optional(),
+    /** First retry delay; each later one doubles it. */
+    ALERT_WEBHOOK_BASE_DELAY_MS: z.coerce.number().int().min(1).default(1000),
+    ALERT_WEBHOOK_TRIES: z.coerce.number().int().min(1).max(10).default(5),
+  })
+  .refine((c) => (c.ALERT_WEBHOOK_URL === undefined) === (c.ALERT_WEBHOOK_SECRET === undefined), {
+    message: "ALERT_WEBHOOK_URL and ALERT_WEBHOOK_SECRET are set together or not at all",
+    path: ["ALERT_WEBHOOK_SECRET"],
+  });
+
+export interface WebhookConfig {
+  url: string;
+  secret: string;
+  baseDelayMs: number;
+  tries: number;
+}
+
+/** The outgoing alert webhook, or null when no admin configured one. */
+export function webhookConfig(): WebhookConfig | null {
+  const parsed = WebhookConfigSchema.safeParse(process.env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((issue) => `  ${issue.path.join(".")}: ${issue.message}`);
+    throw new Error(`Tessera cannot start; fix the alert webhook settings:\n${lines.join("\n")}`);
+  }
+  const c = parsed.data;
+  if (!c.ALERT_WEBHOOK_URL || !c.ALERT_WEBHOOK_SECRET) return null;
+  return { url: c.ALERT_WEBHOOK_URL, secret: c.ALERT_WEBHOOK_SECRET, baseDelayMs: c.ALERT_WEBHOOK_BASE_DELAY_MS, tries: c.ALERT_WEBHOOK_TRIES };
+}
+
+const AlertMailConfigSchema = z.object({
+  /** One alert e-mail per robot within this window; later alerts are counted into the next. */
+  ALERT_MAIL_WINDOW_MS: z.coerce.number().int().min(0).default(10 * 60_000),
+});
+
+/** Alert e-mails' rate limit. */
+export function alertMailConfig(): { windowMs: number } {
+  const parsed = AlertMailConfigSchema.safeParse(process.env);
+  if (!parsed.success) throw new Error(`Tessera cannot start; ALERT_MAIL_WINDOW_MS ${parsed.error.issues[0].message}`);
+  return { windowMs: parsed.data.ALERT_MAIL_WINDOW_MS };
 }

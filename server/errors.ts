@@ -8,6 +8,7 @@ export const ERROR_STATUS = {
   forbidden: 403,
   not_found: 404,
   conflict: 409,
+  gone: 410,
   too_large: 413,
   unsupported: 415,
   unprocessable: 422,

@@ -19,3 +19,4 @@ export * from "./facades/floorplans";
 export * from "./facades/roster";
 export * from "./facades/crew";
 export * from "./facades/logbook-extras";
+export * from "./facades/reports";

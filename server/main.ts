@@ -2,14 +2,20 @@ import { createServer } from "node:http";
 import next from "next";
 import { Server } from "socket.io";
 import { closeDb } from "../db/client";
-import { config, demoErrandsEnabled, fleetConfig } from "./config";
+import { attachAlertMail } from "./alerts/alert-mail";
+import { attachAlertWebhook } from "./alerts/webhook";
+import { alertMailConfig, config, demoErrandsEnabled, fleetConfig, mailConfig, publicUrl, webhookConfig } from "./config";
 import { startDemoErrands } from "./fleet/demo-errands";
 import { Fleet } from "./fleet/fleet";
 import { appDb } from "./db";
 import { logger } from "./logger";
+import { startMailCatcher, type MailCatcher } from "./mail/catcher";
+import { sendEach } from "./mail/mailer";
+import { onCallRecipients } from "./mail/recipients";
 import { attachOpsFeed } from "./ops-feed";
 import { registry } from "./registry";
 import { attachRobotLink } from "./robot-link";
+import { startShiftDigests } from "./reports/schedule";
 
 /** Frames over this size are dropped by socket.io itself before any parsing; the link's own limit is lower. */
 const MAX_FRAME_BYTES = 64 * 1024;
@@ -37,7 +43,21 @@ export async function startTessera(): Promise<void> {
   registry().fleet = fleet;
   attachRobotLink(io, db, fleet);
   attachOpsFeed(io, fleet);
+  // Without a real provider, mail goes to Tessera's own catcher and shows on /mail.
+  const mail = mailConfig();
+  const catcher: MailCatcher | undefined = mail.SMTP_HOST ? undefined : await startMailCatcher(db, mail.MAIL_CATCHER_PORT);
   const stopErrands = demoErrandsEnabled() ? startDemoErrands(fleet) : () => {};
+  const stopReports = [
+    attachAlertWebhook(fleet, webhookConfig()),
+    startShiftDigests(db),
+    attachAlertMail(fleet, {
+      send: sendEach,
+      recipients: () => onCallRecipients(db),
+      windowMs: alertMailConfig().windowMs,
+      publicUrl: publicUrl(),
+      robotName: (id) => fleet.robots.get(id)?.name,
+    }),
+  ];
 
   await new Promise<void>((resolve) => http.listen(c.PORT, c.HOST, resolve));
   logger.info({ url: `http://${c.HOST}:${c.PORT}`, mode: dev ? "development" : "production" }, "Tessera is listening");
@@ -54,6 +74,8 @@ export async function startTessera(): Promise<void> {
       http.closeAllConnections?.();
     });
     stopErrands();
+    for (const stop of stopReports) stop();
+    await catcher?.stop();
     await fleet.stop();
     await closeDb();
     logger.info("stopped");

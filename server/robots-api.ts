@@ -5,11 +5,11 @@ import { defaultFloorplanId } from "../db/queries/floorplans";
 import { generateRobotKey, hashRobotKey } from "../db/robot-keys";
 import { floorplans, robots } from "../db/schema";
 import { RegisterRobotSchema, type RegisterRobotInput } from "../lib/roster";
+import { writeAudit } from "./audit/audit";
 import { appDb } from "./db";
 import { TesseraError } from "./errors";
 import type { Actor } from "./fleet/fleet";
 import { runningFleet } from "./registry";
-import { writeAudit } from "./roster";
 
 export { RegisterRobotSchema };
 
@@ -34,6 +34,6 @@ export async function registerRobot(input: RegisterRobotInput, actor: Actor) {
   });
   const row = (await db.select().from(robots).where(eq(robots.id, id)).limit(1))[0];
   await runningFleet().register(row);
-  await writeAudit(db, actor, "register", id, { name: row.name, drive: row.drive, floorplanId, simulated: row.simulated });
+  await writeAudit(db, actor.userId, "register", id, { name: row.name, drive: row.drive, floorplanId, simulated: row.simulated });
   return { robot: { id, name: row.name, drive: row.drive, sensors: row.sensors, floorplanId, simulated: row.simulated }, key };
 }

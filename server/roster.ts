@@ -8,7 +8,7 @@ import { and, desc, eq, isNull } from "drizzle-orm";
 import type { Db } from "../db/client";
 import { listFloorplans } from "../db/queries/floorplans";
 import { generateRobotKey, hashRobotKey } from "../db/robot-keys";
-import { audit, beliefs, missions, robots, type Robot } from "../db/schema";
+import { beliefs, missions, robots, type Robot } from "../db/schema";
 import {
   defaultRobotSettings,
   resolveRobotSettings,
@@ -19,6 +19,7 @@ import {
   type SettingsView,
 } from "../lib/roster";
 import type { SensorSpec } from "../lib/sensing";
+import { writeAudit } from "./audit/audit";
 import { appDb } from "./db";
 import { TesseraError, zodFields } from "./errors";
 import type { Actor } from "./fleet/fleet";
@@ -43,10 +44,6 @@ const PUBLIC_COLUMNS = {
 };
 
 type PublicRobot = Omit<Robot, "keyHash" | "settings">;
-
-export async function writeAudit(db: Db, actor: Actor, action: string, target: string, detail: Record<string, unknown>): Promise<void> {
-  await db.insert(audit).values({ userId: actor.userId, action, target, detail });
-}
 
 function liveFrame(robotId: string) {
   const fleet = runningFleet();
@@ -141,7 +138,7 @@ export async function rotateRobotKey(id: string, actor: Actor): Promise<{ key: s
   const key = generateRobotKey();
   await db.update(robots).set({ keyHash: hashRobotKey(key) }).where(and(eq(robots.id, id), isNull(robots.retiredAt)));
   const dropped = runningFleet().dropLink(id, "bad_key");
-  await writeAudit(db, actor, "rotate_key", id, { name: row.name, dropped });
+  await writeAudit(db, actor.userId, "rotate-key", id, { name: row.name, dropped });
   return { key, dropped };
 }
 
@@ -152,7 +149,7 @@ export async function retireRobot(id: string, actor: Actor): Promise<{ id: strin
   const retiredAt = new Date();
   await db.update(robots).set({ retiredAt }).where(eq(robots.id, id));
   await runningFleet().retire(id, actor);
-  await writeAudit(db, actor, "retire", id, { name: row.name });
+  await writeAudit(db, actor.userId, "retire", id, { name: row.name });
   return { id, retiredAt: retiredAt.getTime() };
 }
 
@@ -183,7 +180,7 @@ export async function saveRobotSettings(id: string, settings: RobotSettings, act
   await db.update(robots).set({ settings }).where(eq(robots.id, id));
   await runningFleet().applySettings(id, settings);
   const changed = (Object.keys(settings) as (keyof RobotSettings)[]).filter((k) => !isDeepStrictEqual(settings[k], before[k]));
-  await writeAudit(db, actor, "change_settings", id, { changed, settings });
+  await writeAudit(db, actor.userId, "settings-change", id, { changed, settings });
   return settingsView({ ...row, settings });
 }
 
@@ -193,7 +190,7 @@ export async function resetRobotSettings(id: string, actor: Actor): Promise<Sett
   const row = await activeRobot(db, id, "settings");
   await db.update(robots).set({ settings: null }).where(eq(robots.id, id));
   await runningFleet().applySettings(id, defaultRobotSettings(row.drive));
-  await writeAudit(db, actor, "reset_settings", id, {});
+  await writeAudit(db, actor.userId, "settings-reset", id, {});
   return settingsView({ ...row, settings: null });
 }
 
@@ -203,7 +200,7 @@ export async function pushRobotGains(id: string, actor: Actor): Promise<{ gains:
   const row = await activeRobot(db, id, "tune");
   const { gains } = resolveRobotSettings(row.drive, row.settings).settings;
   if (!runningFleet().tune(id, gains)) throw new TesseraError("unprocessable", "tune", `${row.name} is not connected; the gains are saved and can be pushed when it is.`);
-  await writeAudit(db, actor, "tune", id, { gains });
+  await writeAudit(db, actor.userId, "tune", id, { gains });
   return { gains };
 }
 

@@ -23,6 +23,7 @@ export const ALERT_LABELS: Record<AlertKind, string> = {
   fault: "Fault",
   traffic: "Traffic wait",
   battery: "Battery",
+  mission_failed: "Mission failed",
 };
 
 /** "Held · low certainty" style label for a robot's state and hold reason. */

@@ -1,9 +1,12 @@
 "use client";
 
-import { QueryClient, QueryClientProvider, keepPreviousData, useQuery } from "@tanstack/react-query";
+import { QueryClient, QueryClientProvider, keepPreviousData, useMutation, useQuery } from "@tanstack/react-query";
 import { useEffect, useMemo, useState } from "react";
 import type { FloorplanView } from "@/lib/protocol";
+import type { CertaintyCurve, WhatIf, WhatIfResult } from "@/lib/protocol/what-if";
+import { CertaintyChart, type ChartCurve } from "./CertaintyChart";
 import { ReplayFloor, type ReplayPose } from "./ReplayFloor";
+import { WhatIfForm, type ModelValues } from "./WhatIfForm";
 
 interface ReplayAnswer {
   step: number;
@@ -22,6 +25,27 @@ async function fetchReplay(missionId: number, step: number): Promise<ReplayAnswe
   return body as ReplayAnswer;
 }
 
+async function answer<T>(res: Response): Promise<T> {
+  const body = await res.json();
+  if (!res.ok) throw new Error(body?.error?.message ?? `The server answered ${res.status}.`);
+  return body as T;
+}
+
+async function fetchCurve(missionId: number): Promise<CertaintyCurve> {
+  return answer(await fetch(`/api/missions/${missionId}/certainty`, { credentials: "same-origin" }));
+}
+
+async function postWhatIf(missionId: number, whatIf: WhatIf): Promise<WhatIfResult> {
+  return answer(
+    await fetch(`/api/missions/${missionId}/certainty`, {
+      method: "POST",
+      credentials: "same-origin",
+      headers: { "content-type": "application/json" },
+      body: JSON.stringify(whatIf),
+    }),
+  );
+}
+
 function masses(belief: ReplayAnswer["belief"]): Float32Array {
   const bytes = Uint8Array.from(atob(belief.data), (c) => c.charCodeAt(0));
   const out = new Float32Array(bytes.length);
@@ -38,8 +62,27 @@ function describe(event: ReplayAnswer["event"]): string {
 
 const SPEEDS = [1, 2, 5, 10];
 
-function Replay({ missionId, steps, plan, goal }: { missionId: number; steps: number; plan: FloorplanView; goal: { row: number; col: number } }) {
+interface ReplayProps {
+  missionId: number;
+  steps: number;
+  plan: FloorplanView;
+  goal: { row: number; col: number };
+  /** The robot's current models, the what-if form's starting values; null when the robot has left the roster. */
+  models: ModelValues | null;
+}
+
+function Replay({ missionId, steps, plan, goal, models }: ReplayProps) {
   const [step, setStep] = useState(steps);
+  const curve = useQuery({ queryKey: ["certainty", missionId], queryFn: () => fetchCurve(missionId), staleTime: Infinity });
+  const whatIf = useMutation({ mutationFn: (w: WhatIf) => postWhatIf(missionId, w) });
+  const curves: ChartCurve[] = whatIf.data
+    ? [
+        { key: "live models", curve: whatIf.data.baseline },
+        { key: "what-if", curve: whatIf.data.whatIf },
+      ]
+    : curve.data
+      ? [{ key: "live models", curve: curve.data }]
+      : [];
   const [playing, setPlaying] = useState(false);
   const [speed, setSpeed] = useState(2);
   const query = useQuery({ queryKey: ["replay", missionId, step], queryFn: () => fetchReplay(missionId, step), placeholderData: keepPreviousData, staleTime: Infinity });
@@ -111,12 +154,29 @@ function Replay({ missionId, steps, plan, goal }: { missionId: number; steps: nu
           </dl>
         )}
       </div>
+      <h2 className="text-lg font-semibold">Certainty over the mission</h2>
+      {curve.error && <p className="text-sm text-coral">{(curve.error as Error).message}</p>}
+      <CertaintyChart
+        curves={curves}
+        step={step}
+        onPick={(s) => {
+          setPlaying(false);
+          setStep(s);
+        }}
+      />
+      {models && (
+        <details className="space-y-2" open={whatIf.data !== undefined}>
+          <summary className="cursor-pointer text-sm text-ink-300">What-if: replay these messages with other parameters</summary>
+          <WhatIfForm models={models} busy={whatIf.isPending} onRun={(w) => whatIf.mutate(w)} onClear={() => whatIf.reset()} />
+          {whatIf.error && <p className="text-sm text-coral">{(whatIf.error as Error).message}</p>}
+        </details>
+      )}
     </section>
   );
 }
 
 /** Replay of one mission: scrub or play through its belief updates (each move, reading and pose hint) and see the belief as it was then. */
-export function MissionReplay(props: { missionId: number; steps: number; plan: FloorplanView; goal: { row: number; col: number } }) {
+export function MissionReplay(props: ReplayProps) {
   const [client] = useState(() => new QueryClient());
   return (
     <QueryClientProvider client={client}>

@@ -87,6 +87,21 @@ describe("parseFloorplan, images", () => {
     expect(Array.from(parseFloorplan(bytes, { threshold: 160 }).blocked)).toEqual([1, 1]);
     expect(Array.from(parseFloorplan(pngOf(2, 1, () => 0, 0)).blocked)).toEqual([0, 0]);
   });
+  it("refuses an image whose header announces too many pixels without decoding it", () => {
+    const header = pngOf(4, 4, () => 0);
+    const view = new DataView(header.buffer, header.byteOffset, header.byteLength);
+    view.setUint32(16, 100_000);
+    view.setUint32(20, 100_000);
+    let decoded = 0;
+    const decodePng = () => {
+      decoded += 1;
+      return { width: 0, height: 0, data: new Uint8Array(0) };
+    };
+    expect(failure(header, { pixelsPerTile: 200, decodePng })).toEqual({ reason: expect.stringContaining("100000 × 100000 px is over the 16,777,216-pixel limit"), where: { field: "PNG IHDR", byte: 16 } });
+    expect(decoded).toBe(0);
+    expect(failure(new TextEncoder().encode("P5\n60000 60000\n255\n"), { pixelsPerTile: 120 }).reason).toMatch(/over the 16,777,216-pixel limit/);
+    expect(failure(pngOf(6, 6, () => 0), { maxImagePixels: 35 }).reason).toMatch(/6 × 6 px is over the 35-pixel limit/);
+  });
   it("rejects a PNG that does not decode, or does not split into whole tiles", () => {
     const bytes = pngOf(4, 4, () => 0);
     const broken = bytes.slice(0, 40);

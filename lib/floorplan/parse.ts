@@ -58,11 +58,16 @@ export interface ParseFloorplanOptions {
   pixelsPerTile?: number;
   /** Tile side in metres (default 0.3048, one foot); the JSON form's own tileM wins. */
   tileM?: number;
+  /** Largest image accepted, in pixels (default IMAGE_MAX_PIXELS); checked on the header, before any pixel is decoded. */
+  maxImagePixels?: number;
   /** PNG decoder; defaults to pngjs's PNG.sync.read. Throw on bytes that do not decode. */
   decodePng?: (bytes: Uint8Array) => RgbaImage;
 }
 
 export type FloorplanParseResult = { ok: true; plan: Floorplan } | { ok: false; error: { reason: string; where: FloorplanWhere } };
+
+/** Default image size limit: 4096 × 4096 pixels, 64 MB once decoded to RGBA. */
+export const IMAGE_MAX_PIXELS = 4096 * 4096;
 
 const PNG_SIGNATURE = [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a];
 
@@ -246,6 +251,10 @@ function imageTiles(width: number, height: number, opts: ParseFloorplanOptions, 
   const ppt = opts.pixelsPerTile ?? 1;
   if (!Number.isInteger(ppt) || ppt < 1) throw new RangeError(`pixelsPerTile must be a positive integer, got ${ppt}`);
   if (width < 1 || height < 1) throw new FloorplanParseError(`image has zero size (${width} × ${height} px)`, where);
+  const maxPixels = opts.maxImagePixels ?? IMAGE_MAX_PIXELS;
+  if (width * height > maxPixels) {
+    throw new FloorplanParseError(`image of ${width} × ${height} px is over the ${maxPixels.toLocaleString("en-US")}-pixel limit`, where);
+  }
   if (width % ppt !== 0 || height % ppt !== 0) {
     throw new FloorplanParseError(`image of ${width} × ${height} px is not a whole number of ${ppt}-pixel tiles`, where);
   }

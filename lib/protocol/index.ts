@@ -1,2 +1,5 @@
 export * from "./robot-link";
 export * from "./ops-feed";
+export * from "./what-if";
+export * from "./notes";
+export * from "./floorplans";

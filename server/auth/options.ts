@@ -6,7 +6,7 @@ import bcrypt from "bcryptjs";
 import type { NextAuthOptions } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
 import { z } from "zod";
-import { findUserByEmail } from "../../db/queries/users";
+import { findUserByEmail, findUserById } from "../../db/queries/users";
 import { ROLES } from "../../lib/vocabulary";
 import { config } from "../config";
 import { appDb } from "../db";
@@ -30,12 +30,23 @@ export async function verifyCredentials(raw: unknown): Promise<SessionUser | nul
   const parsed = CredentialsSchema.safeParse(raw);
   if (!parsed.success) return null;
   const user = await findUserByEmail(appDb(), parsed.data.email);
-  if (!user || user.disabledAt) return null;
+  // An invited user has no password until they follow their link.
+  if (!user || user.disabledAt || !user.passwordHash) return null;
   const ok = await bcrypt.compare(parsed.data.password, user.passwordHash);
   if (!ok) {
     logger.info({ email: parsed.data.email }, "sign-in refused: wrong password");
     return null;
   }
+  return { id: String(user.id), email: user.email, name: user.name, role: user.role };
+}
+
+/**
+ * The session's user as the database has it now: null once the account is deactivated or
+ * gone, and the current role and name, so an admin's change applies on the user's next request.
+ */
+export async function activeSessionUser(claims: SessionUser): Promise<SessionUser | null> {
+  const user = await findUserById(appDb(), Number(claims.id));
+  if (!user || user.disabledAt) return null;
   return { id: String(user.id), email: user.email, name: user.name, role: user.role };
 }
 
@@ -60,14 +71,17 @@ export function authOptions(): NextAuthOptions {
         }
         return token;
       },
-      session({ session, token }) {
+      async session({ session, token }) {
         const parsed = SessionUserSchema.safeParse({
           id: token.uid,
           email: token.email,
           name: token.name,
           role: token.role,
         });
-        if (parsed.success) (session as unknown as { user: SessionUser }).user = parsed.data;
+        const fresh = parsed.success ? await activeSessionUser(parsed.data) : null;
+        const holder = session as unknown as { user?: SessionUser };
+        if (fresh) holder.user = fresh;
+        else delete holder.user;
         return session;
       },
     },

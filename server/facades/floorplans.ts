@@ -1,2 +1,13 @@
 /** What app/ uses of the server for floorplans; re-exported by server/facade.ts. */
-export {};
+export {
+  exportFloorplan,
+  floorplanDetail,
+  findFloorplanDetail,
+  floorplanIdParam,
+  floorplanOriginal,
+  floorplanSummaries,
+  importFloorplanUpload,
+  previewFloorplanUpload,
+  saveFloorplanVersion,
+  type FloorplanDetail,
+} from "../floorplans/api";

@@ -527,7 +527,48 @@ export class Fleet extends EventEmitter<FleetEvents> {
     await this.writer.commit();
     await this.db.update(missions).set({ state: outcome, endedAt: new Date() }).where(eq(missions.id, mission.id));
     logger.info({ robot: runtime.id, mission: mission.id, outcome, steps: mission.step }, "mission ended");
+    if (outcome === "failed") void this.alert(runtime, "mission_failed", `${runtime.name} failed mission ${mission.id} to (${mission.goal.row}, ${mission.goal.col}) after ${mission.step} steps`, mission.id);
+    await this.adoptLatestVersion(runtime);
     this.publish(runtime);
+  }
+
+  // ——— floorplan versions ———
+
+  /**
+   * A new version of a floorplan was saved: every idle robot on it moves to that version;
+   * a robot under way keeps the version its mission pinned and moves when the mission ends.
+   * Returns the ids of the robots that moved.
+   */
+  async floorplanChanged(floorplanId: number): Promise<string[]> {
+    const moved: string[] = [];
+    for (const runtime of this.robots.values()) {
+      if (runtime.floorplanId !== floorplanId || runtime.mission) continue;
+      const step = runtime.chain.then(async () => {
+        if (await this.adoptLatestVersion(runtime)) moved.push(runtime.id);
+      });
+      runtime.chain = step.catch((err: unknown) => logger.error({ err, robot: runtime.id, floorplan: floorplanId }, "robot could not move to the new floorplan version"));
+      await runtime.chain;
+    }
+    for (const id of moved) {
+      const runtime = this.robots.get(id) as RobotRuntime;
+      this.publishBelief(runtime);
+      this.publish(runtime);
+    }
+    return moved;
+  }
+
+  /** Switches an idle robot to its floorplan's latest version; true when it changed. */
+  private async adoptLatestVersion(runtime: RobotRuntime): Promise<boolean> {
+    if (runtime.mission || runtime.floorplanId === null) return false;
+    const latest = await latestVersion(this.db, runtime.floorplanId);
+    if (!latest || latest.id === runtime.versionId) return false;
+    const from = runtime.versionId;
+    runtime.switchPlan(latest.id, await this.planOf(latest.id));
+    // The snapshot records the new version, so a restart loads the robot onto it.
+    this.snapshot(runtime);
+    await this.writer.commit();
+    logger.info({ robot: runtime.id, floorplan: runtime.floorplanId, from, to: latest.id }, "robot moved to a new floorplan version");
+    return true;
   }
 
   // ——— commands from dashboards and routes ———
@@ -678,9 +719,9 @@ export class Fleet extends EventEmitter<FleetEvents> {
     await this.db.insert(audit).values({ userId: actor.userId, action, target, detail });
   }
 
-  private async alert(runtime: RobotRuntime, kind: AlertKind, message: string): Promise<void> {
+  private async alert(runtime: RobotRuntime, kind: AlertKind, message: string, missionId = runtime.mission?.id ?? null): Promise<void> {
     try {
-      const [{ id }] = await this.db.insert(alerts).values({ robotId: runtime.id, missionId: runtime.mission?.id ?? null, kind, message }).$returningId();
+      const [{ id }] = await this.db.insert(alerts).values({ robotId: runtime.id, missionId, kind, message }).$returningId();
       this.emit("alert", { id, robotId: runtime.id, kind, message, createdAt: Date.now(), floorplanId: runtime.floorplanId });
     } catch (err) {
       logger.error({ err, robot: runtime.id, kind }, "alert could not be stored");

@@ -97,6 +97,26 @@ export class RobotRuntime {
     this.certaintyCache = null;
   }
 
+  /**
+   * Moves the robot onto another version of its floorplan: the filter is rebuilt for the
+   * new grid; the belief carries over when the shape is unchanged (mass on newly blocked
+   * tiles dropped), and is uniform over the free tiles otherwise or when nothing is left.
+   */
+  switchPlan(versionId: number, plan: Floorplan): void {
+    const old = this.plan;
+    const belief = Float64Array.from(this.filter.belief);
+    this.versionId = versionId;
+    this.plan = plan;
+    this.filter = createFilter(plan, this.motion, this.sensors, this.sensorModel);
+    this.certaintyCache = null;
+    if (old.rows !== plan.rows || old.cols !== plan.cols) return;
+    try {
+      this.filter.reset(belief);
+    } catch {
+      this.filter.reset();
+    }
+  }
+
   /** Prediction step of the filter for one tile action. */
   move(action: Action): void {
     this.filter.motion(action);

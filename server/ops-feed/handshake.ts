@@ -3,7 +3,7 @@
  * Origin check so another site cannot open a socket with the operator's cookie.
  */
 import { getToken } from "next-auth/jwt";
-import { userFromToken, type SessionUser } from "../auth/options";
+import { activeSessionUser, userFromToken, type SessionUser } from "../auth/options";
 
 export function parseCookieHeader(header: string | undefined): Record<string, string> {
   const cookies: Record<string, string> = {};
@@ -36,6 +36,8 @@ export async function checkOpsHandshake(
     req: { cookies: parseCookieHeader(cookieHeader), headers } as never,
     secret: opts.secret,
   });
-  const user = userFromToken(token);
+  const claims = userFromToken(token);
+  // A deactivated user's cookie stays signed; the database decides whether it still counts.
+  const user = claims ? await activeSessionUser(claims) : null;
   return user ? { ok: true, user } : { ok: false, code: "unauthorized" };
 }

@@ -238,7 +238,7 @@ describe("rotating a key", () => {
     expect(await handshake(id, newKey)).toEqual({ connected: true });
     const again = await online(id, newKey);
     expect(again.socket.connected).toBe(true);
-    const [entry] = await auditRows("rotate_key", id);
+    const [entry] = await auditRows("rotate-key", id);
     expect(entry).toMatchObject({ userId: Number(accounts.admin.id), detail: { dropped: true } });
     expect(JSON.stringify(entry.detail)).not.toContain(newKey);
     const detail = await call(routes.detail.GET, { id });
@@ -364,9 +364,9 @@ describe("a robot's settings", () => {
     expect(reset.body).toMatchObject({ settings: defaultRobotSettings("differential"), custom: [] });
     expect(server.fleet.robots.get(id)!.motion).toEqual({ drive: "differential", ...defaultRobotSettings("differential").motion });
     expect((await server.db.select().from(robots).where(eq(robots.id, id)))[0].settings).toBeNull();
-    const [changed] = await auditRows("change_settings", id);
+    const [changed] = await auditRows("settings-change", id);
     expect(changed.detail).toMatchObject({ changed: ["motion", "sensing", "gains"] });
-    expect(await auditRows("reset_settings", id)).toHaveLength(1);
+    expect(await auditRows("settings-reset", id)).toHaveLength(1);
   });
 });
 

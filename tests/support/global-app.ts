@@ -8,6 +8,8 @@ import { prepareDatabase, ROOT } from "../../scripts/local-env";
 
 const APP_PORT = Number(process.env.TESSERA_E2E_PORT ?? 3517);
 const DB_PORT = Number(process.env.TESSERA_E2E_DB_PORT ?? 3418);
+/** The server's own SMTP catcher: invites and resets sent in browser tests land on /mail. */
+const SMTP_PORT = Number(process.env.TESSERA_E2E_SMTP_PORT ?? 2517);
 
 async function waitForHealth(url: string, child: ChildProcess): Promise<void> {
   const deadline = Date.now() + 90_000;
@@ -42,6 +44,8 @@ export default async function setup(project: TestProject) {
       NEXTAUTH_SECRET: "tessera-e2e-secret-not-for-production",
       NEXTAUTH_URL: appUrl,
       LOG_LEVEL: "warn",
+      SMTP_HOST: "",
+      MAIL_CATCHER_PORT: String(SMTP_PORT),
       // The live floor's load test streams belief frames at 5 Hz per robot.
       FLEET_BELIEF_FRAME_HZ: "5",
     },

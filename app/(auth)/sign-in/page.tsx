@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import Link from "next/link";
 import { redirect } from "next/navigation";
 import { SignInForm } from "@/components/auth/SignInForm";
 import { currentUser } from "@/server/facade";
@@ -24,6 +25,11 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
           <p className="mt-1 text-sm text-ink-500">Fleet localisation, dispatch and safety holds.</p>
         </div>
         <SignInForm callbackUrl={callbackUrl} />
+        <p className="mt-4 text-sm">
+          <Link href="/reset" className="text-ink-300 underline underline-offset-4 hover:text-ink-100">
+            Forgot password?
+          </Link>
+        </p>
       </div>
     </main>
   );

@@ -1,10 +1,12 @@
 import type { Metadata } from "next";
-import { ComingLater } from "@/components/shell/ComingLater";
-import { requirePageRole } from "@/server/facade";
+import { ShiftReport } from "@/components/reports/ShiftReport";
+import { roleAllows } from "@/lib/roles";
+import { reportFloorplans, requirePageRole } from "@/server/facade";
 
 export const metadata: Metadata = { title: "Reports" };
 
 export default async function Page() {
-  await requirePageRole("viewer", "/reports");
-  return <ComingLater title="Reports" what="The shift summary and its e-mail digest arrive with the logbook." />;
+  const user = await requirePageRole("viewer", "/reports");
+  const floorplans = await reportFloorplans();
+  return <ShiftReport floorplans={floorplans} initialTo={Date.now()} canSendDigest={roleAllows(user.role, "operator")} />;
 }

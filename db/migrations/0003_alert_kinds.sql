@@ -1,0 +1,1 @@
+ALTER TABLE `alerts` MODIFY COLUMN `kind` enum('low_certainty','offline','fault','traffic','battery','mission_failed') NOT NULL;

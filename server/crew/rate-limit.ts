@@ -1,0 +1,23 @@
+/** A sliding-window counter per key, in memory: enough to keep a public form from being used as a mail cannon. */
+export interface RateLimiter {
+  /** Counts one attempt for `key`; false when the key already used its allowance in the window. */
+  take(key: string, now?: number): boolean;
+}
+
+export function createRateLimiter(max: number, windowMs: number): RateLimiter {
+  const hits = new Map<string, number[]>();
+  return {
+    take(key, now = Date.now()) {
+      const recent = (hits.get(key) ?? []).filter((t) => now - t < windowMs);
+      if (recent.length >= max) {
+        hits.set(key, recent);
+        return false;
+      }
+      recent.push(now);
+      hits.set(key, recent);
+      // Keys of addresses nobody asks for again must not pile up forever.
+      if (hits.size > 10_000) for (const [k, times] of hits) if (times.every((t) => now - t >= windowMs)) hits.delete(k);
+      return true;
+    },
+  };
+}
