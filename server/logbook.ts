@@ -1,7 +1,7 @@
 /** The logbook's queries: missions with filters and server-side paging, a mission's events, exports. */
-import { and, asc, count, desc, eq, gt, gte, lte, type SQL } from "drizzle-orm";
+import { and, asc, count, desc, eq, gt, gte, inArray, lte, type SQL } from "drizzle-orm";
 import { z } from "zod";
-import { events, missions, robots } from "../db/schema";
+import { events, floorplanVersions, missions, robots } from "../db/schema";
 import { MISSION_STATES } from "../lib/vocabulary";
 import { appDb } from "./db";
 
@@ -24,9 +24,10 @@ export async function listMissions(q: MissionListQuery) {
   if (q.outcome) where.push(eq(missions.state, q.outcome));
   if (q.from) where.push(gte(missions.startedAt, q.from));
   if (q.to) where.push(lte(missions.startedAt, q.to));
-  if (q.floorplan) where.push(eq(robots.floorplanId, q.floorplan));
+  // The floorplan a mission ran on is its pinned version's, whatever the robot is on now.
+  if (q.floorplan) where.push(inArray(missions.versionId, db.select({ id: floorplanVersions.id }).from(floorplanVersions).where(eq(floorplanVersions.floorplanId, q.floorplan))));
   const condition = where.length ? and(...where) : undefined;
-  const [{ total }] = await db.select({ total: count() }).from(missions).leftJoin(robots, eq(robots.id, missions.robotId)).where(condition);
+  const [{ total }] = await db.select({ total: count() }).from(missions).where(condition);
   const rows = await db
     .select({ mission: missions, robotName: robots.name })
     .from(missions)

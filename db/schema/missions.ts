@@ -18,7 +18,12 @@ export const missions = mysqlTable(
     startedAt: timestamp("started_at", { fsp: 3 }).notNull().defaultNow(),
     endedAt: timestamp("ended_at", { fsp: 3 }),
   },
-  (t) => [index("missions_robot_idx").on(t.robotId, t.startedAt), index("missions_state_idx").on(t.state, t.startedAt)],
+  (t) => [
+    index("missions_robot_idx").on(t.robotId, t.startedAt),
+    index("missions_state_idx").on(t.state, t.startedAt),
+    index("missions_started_idx").on(t.startedAt, t.id),
+    index("missions_version_idx").on(t.versionId, t.startedAt),
+  ],
 );
 
 export type MissionRow = typeof missions.$inferSelect;

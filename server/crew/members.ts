@@ -57,12 +57,12 @@ export async function issueLink(tx: Tx, userId: number, kind: LinkKind, createdB
 }
 
 /** Sends a link mail; a failure after the rows are committed says so instead of hiding it. */
-async function deliver(mail: Parameters<typeof sendMail>[0], saved: string): Promise<void> {
+async function deliver(mail: Parameters<typeof sendMail>[0], saved: string, retry: string): Promise<void> {
   try {
     await sendMail(mail);
   } catch (cause) {
     logger.error({ err: cause, to: mail.to }, "link mail not sent");
-    throw new TesseraError("unavailable", SURFACE, `${saved} is saved, but the e-mail to ${String(mail.to)} could not be sent; use Send link on the crew page to try again.`, { cause });
+    throw new TesseraError("unavailable", SURFACE, `${saved} is saved, but the e-mail to ${String(mail.to)} could not be sent; use ${retry} on the crew page to try again.`, { cause });
   }
 }
 
@@ -90,7 +90,7 @@ export async function inviteMember(actor: SessionUser, invite: InviteInput): Pro
     }
     throw err;
   }
-  await deliver(inviteMail(input, input.role, actor.name, created.url), `The invite for ${input.email}`);
+  await deliver(inviteMail(input, input.role, actor.name, created.url), `The invite for ${input.email}`, "Resend invite");
   const [row] = await db.select().from(users).where(eq(users.id, created.id));
   return toMember(row);
 }
@@ -150,7 +150,7 @@ export async function sendMemberLink(actor: SessionUser, id: number): Promise<{ 
     return { user: row, kind: linkKind, url: link };
   });
   const mail = kind === "invite" ? inviteMail(user, user.role, actor.name, url) : resetMail(user, url);
-  await deliver(mail, `The ${kind === "invite" ? "invite" : "reset link"} for ${user.email}`);
+  await deliver(mail, `The ${kind === "invite" ? "invite" : "reset link"} for ${user.email}`, kind === "invite" ? "Resend invite" : "Send reset");
   return { kind, email: user.email };
 }
 

@@ -130,6 +130,26 @@ describe("invites", () => {
   });
 });
 
+describe("mail failures", () => {
+  it("keeps the invited user when the mail cannot be sent, says so with 503, and the resend works later", async () => {
+    const email = address("unmailed");
+    process.env.MAIL_CATCHER_PORT = "9";
+    let failure: Awaited<ReturnType<typeof errorOf>>;
+    try {
+      failure = await errorOf(crew.inviteMember(admin, { email, name: "Un Mailed", role: "viewer" }));
+    } finally {
+      process.env.MAIL_CATCHER_PORT = String(TEST_SMTP_PORT);
+    }
+    expect(failure).toMatchObject({ status: 503, code: "unavailable:users" });
+    expect(failure.message).toBe(`The invite for ${email} is saved, but the e-mail to ${email} could not be sent; use Resend invite on the crew page to try again.`);
+    const member = (await crew.listCrew()).find((m) => m.email === email)!;
+    expect(member).toMatchObject({ state: "invited", role: "viewer" });
+    expect(await crew.sendMemberLink(admin, member.id)).toEqual({ kind: "invite", email });
+    await crew.acceptLink(linkToken((await mailTo(db, email)).text, "invite"), "mailed-at-last");
+    expect(await auth.verifyCredentials({ email, password: "mailed-at-last" })).not.toBeNull();
+  });
+});
+
 describe("roles, deactivation and the last admin", () => {
   it("applies a role change to the user's next request", async () => {
     const user = await joined("promoted", "viewer");
@@ -261,5 +281,25 @@ describe("audit", () => {
     const today = new Date().toISOString().slice(0, 10);
     expect((await crew.listAudit(crew.AuditQuery.parse({ action, to: today }))).total).toBe(5);
     expect(crew.AuditQuery.safeParse({ from: "last tuesday" }).success).toBe(false);
+  });
+});
+
+describe("reset request limit", () => {
+  // Last in the file: the overall limit is per process and would refuse later requests.
+  it("refuses the 31st reset request within a minute with 429", async () => {
+    let accepted = 0;
+    let refused: Awaited<ReturnType<typeof errorOf>> | undefined;
+    for (let i = 0; i < 40 && !refused; i += 1) {
+      try {
+        await crew.requestReset(address(`flood-${i}`));
+        accepted += 1;
+      } catch (err) {
+        refused = { status: (err as { status: number }).status, code: (err as { code: string }).code, message: (err as Error).message };
+      }
+    }
+    // Earlier tests in this file used a few of the 30.
+    expect(accepted).toBeLessThanOrEqual(30);
+    expect(accepted).toBeGreaterThanOrEqual(20);
+    expect(refused).toEqual({ status: 429, code: "rate_limited:auth-links", message: "Too many reset requests just now; wait a minute and try again." });
   });
 });

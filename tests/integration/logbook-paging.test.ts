@@ -3,7 +3,7 @@
  * filters and order return the rows a recomputation from the seed says they should, and
  * the page queries the indexes support read an index rather than the whole table.
  */
-import { and, desc, eq, sql, type SQL } from "drizzle-orm";
+import { and, desc, eq, gte, sql, type SQL } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { closeDb, currentPool, openDb, type Db } from "../../db/client";
 import { missions, robots } from "../../db/schema";
@@ -137,5 +137,8 @@ describe("logbook paging with 3000 missions", () => {
     expect(byOutcome.type).not.toBe("ALL");
     const both = await explain(pageQuery(and(eq(missions.robotId, robotIds[0]), eq(missions.state, "failed"))!));
     expect(["missions_robot_idx", "missions_state_idx"]).toContain(both.key);
+    // No filter: newest first straight off the start-time index, no sort of the whole log.
+    const plain = await explain(pageQuery(gte(missions.id, 0)));
+    expect(plain.key).toBe("missions_started_idx");
   });
 });
