@@ -9,3 +9,4 @@ export * from "./planning";
 export * from "./control";
 export * from "./kinematics";
 export * from "./protocol";
+export * from "./roster";

@@ -1,25 +1,19 @@
 /** Registering robots: the key is generated here, returned once, and stored only hashed. */
 import { randomBytes } from "node:crypto";
 import { eq } from "drizzle-orm";
-import { z } from "zod";
 import { defaultFloorplanId } from "../db/queries/floorplans";
 import { generateRobotKey, hashRobotKey } from "../db/robot-keys";
 import { floorplans, robots } from "../db/schema";
-import { SensorSchema } from "../lib/protocol";
-import { DRIVES } from "../lib/vocabulary";
+import { RegisterRobotSchema, type RegisterRobotInput } from "../lib/roster";
+import { writeAudit } from "./audit/audit";
 import { appDb } from "./db";
 import { TesseraError } from "./errors";
+import type { Actor } from "./fleet/fleet";
 import { runningFleet } from "./registry";
 
-export const RegisterRobotSchema = z.object({
-  name: z.string().trim().min(1).max(80),
-  drive: z.enum(DRIVES),
-  sensors: z.array(SensorSchema).max(16),
-  floorplanId: z.number().int().positive().optional(),
-  simulated: z.boolean().optional(),
-});
+export { RegisterRobotSchema };
 
-export async function registerRobot(input: z.infer<typeof RegisterRobotSchema>) {
+export async function registerRobot(input: RegisterRobotInput, actor: Actor) {
   const db = appDb();
   const floorplanId = input.floorplanId ?? (await defaultFloorplanId(db));
   if (floorplanId === undefined) throw new TesseraError("unprocessable", "robots", "There is no floorplan to put the robot on; create one first.");
@@ -27,8 +21,6 @@ export async function registerRobot(input: z.infer<typeof RegisterRobotSchema>) 
     const exists = await db.select({ id: floorplans.id }).from(floorplans).where(eq(floorplans.id, input.floorplanId)).limit(1);
     if (!exists.length) throw new TesseraError("unprocessable", "robots", `There is no floorplan ${input.floorplanId}.`, { fields: { floorplanId: ["unknown floorplan"] } });
   }
-  const ids = new Set(input.sensors.map((s) => s.id));
-  if (ids.size !== input.sensors.length) throw new TesseraError("bad_request", "robots", "Sensor ids must be unique.", { fields: { sensors: ["duplicate sensor id"] } });
   const id = `rb-${randomBytes(5).toString("hex")}`;
   const key = generateRobotKey();
   await db.insert(robots).values({
@@ -42,5 +34,6 @@ export async function registerRobot(input: z.infer<typeof RegisterRobotSchema>) 
   });
   const row = (await db.select().from(robots).where(eq(robots.id, id)).limit(1))[0];
   await runningFleet().register(row);
+  await writeAudit(db, actor.userId, "register", id, { name: row.name, drive: row.drive, floorplanId, simulated: row.simulated });
   return { robot: { id, name: row.name, drive: row.drive, sensors: row.sensors, floorplanId, simulated: row.simulated }, key };
 }

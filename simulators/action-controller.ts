@@ -23,7 +23,7 @@
  * Reference: CHECKS.md "PID" and "Facts of the trade" (gyro-fed heading hold, turn error
  * accumulation, common practice); the bicycle's curvature from CHECKS.md "Drive kinematics".
  */
-import { createPid, wrapRadians, type Pid } from "../lib/control";
+import { createPid, defaultHeadingGains, wrapRadians, type Pid } from "../lib/control";
 import type { Action } from "../lib/vocabulary";
 import { stepRobot, stopCommand, type DriveCommand, type SimState } from "./robot-physics";
 import type { Rng } from "./rng";
@@ -50,7 +50,7 @@ export interface ControlParams {
 /** Default controller settings for the demo robots (gains picked by hand on the plant of robot-physics.ts). */
 export function defaultControlParams(): ControlParams {
   return {
-    pid: { kp: 6, ki: 1.5, kd: 0.05 },
+    pid: defaultHeadingGains(),
     headingHold: true,
     turnTarget: "grid",
     cruiseMS: 0.2,

@@ -1,1 +1,2 @@
 export * from "./pid";
+export * from "./gains";

@@ -12,6 +12,7 @@ import { alerts, audit, beliefs, events, missions, robots, type Robot } from "..
 import { tileMarginal } from "../../lib/belief";
 import { isFreeTile, stateIndex, type Floorplan, type Tile } from "../../lib/floorplan";
 import { chooseAction } from "../../lib/planning";
+import { resolveRobotSettings, type RobotSettings } from "../../lib/roster";
 import {
   MAX_MESSAGE_BYTES,
   ROBOT_EVENTS,
@@ -35,7 +36,7 @@ import { PolicyCache } from "./policy-cache";
 import { likelyTile } from "./route-preview";
 import { applyToFilter, FILTER_EVENT_KINDS } from "./filter-events";
 import { missionRef, robotFrame, robotState } from "./frames";
-import { RobotRuntime, type MissionRuntime, type RobotSettings } from "./robot-runtime";
+import { RobotRuntime, type MissionRuntime } from "./robot-runtime";
 import { trafficBlocker } from "./traffic";
 import { FleetWriter } from "./writer";
 
@@ -60,6 +61,8 @@ export interface FleetEvents {
   robot: [RobotFrame];
   belief: [{ robotId: string; floorplanId: number | null; rows: number; cols: number; marginal: Float32Array }];
   alert: [{ id: number; robotId: string | null; kind: AlertKind; message: string; createdAt: number; floorplanId: number | null }];
+  /** A robot left the live floor (retired). */
+  removed: [{ robotId: string; floorplanId: number | null }];
 }
 
 export class Fleet extends EventEmitter<FleetEvents> {
@@ -113,7 +116,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
     const versionId = active?.versionId ?? snapshot?.versionId ?? (await latestVersion(this.db, floorplanId))?.id;
     if (versionId === undefined) throw new Error(`floorplan ${floorplanId} has no version`);
     const plan = await this.planOf(versionId);
-    const settings = (row.settings ?? {}) as RobotSettings;
+    const { settings } = resolveRobotSettings(row.drive, row.settings);
     const runtime = new RobotRuntime(row.id, row.name, row.simulated, row.drive, floorplanId, versionId, plan, row.sensors as SensorSpec[], settings);
     const usable = snapshot && snapshot.versionId === versionId;
     if (usable) {
@@ -660,6 +663,56 @@ export class Fleet extends EventEmitter<FleetEvents> {
     this.logCommand(runtime, "operator", "fault", { ...fault, by: actor.label });
     runtime.socket.emit("fault", fault);
     await this.writer.commit();
+  }
+
+  // ——— roster ———
+
+  /**
+   * Closes a robot's live link at once, after its key was rotated or it was retired. The
+   * robot's reconnect is then refused at the handshake with PROTOCOL.md's `bad_key` or
+   * `retired`. True when a connection was dropped.
+   */
+  dropLink(robotId: string, why: "bad_key" | "retired"): boolean {
+    const runtime = this.robots.get(robotId);
+    const socket = runtime?.socket;
+    if (!runtime || !socket) return false;
+    logger.info({ robot: robotId, why }, "closing the robot link");
+    runtime.socket = null;
+    socket.disconnect(true);
+    return true;
+  }
+
+  /** Takes a retired robot off the live floor: its mission is aborted (and kept), its link closed. */
+  async retire(robotId: string, actor: Actor): Promise<void> {
+    const runtime = this.robots.get(robotId);
+    if (!runtime) return;
+    await runtime.chain;
+    if (runtime.mission) {
+      this.logCommand(runtime, "operator", "cancel", { by: actor.label, reason: "retired" });
+      await this.finish(runtime, "aborted");
+    }
+    this.dropLink(robotId, "retired");
+    runtime.online = false;
+    await this.writer.commit();
+    this.robots.delete(robotId);
+    this.emit("removed", { robotId, floorplanId: runtime.floorplanId });
+  }
+
+  /** New motion and sensor parameters and gains; the live filter uses them from its next update. */
+  async applySettings(robotId: string, settings: RobotSettings): Promise<void> {
+    const runtime = this.robots.get(robotId);
+    if (!runtime) return;
+    // Between two messages, never halfway through one's motion and sense updates.
+    runtime.chain = runtime.chain.then(() => runtime.applySettings(settings));
+    await runtime.chain;
+  }
+
+  /** Sends `tune` with the robot's gains when it is connected; false when it is not. */
+  tune(robotId: string, gains: RobotSettings["gains"]): boolean {
+    const runtime = this.runtime(robotId);
+    if (!runtime.socket?.connected) return false;
+    this.command(runtime, "tune", { pid: { kp: gains.kp, ki: gains.ki, kd: gains.kd } });
+    return true;
   }
 
   private async audit(actor: Actor, action: string, target: string, detail: Record<string, unknown>): Promise<void> {

@@ -5,8 +5,10 @@
  * k is the belief after the mission's k-th belief-changing event (moved, sensed, relocate).
  */
 import { and, asc, desc, eq, gt, gte, inArray, lte } from "drizzle-orm";
-import { createFilter, certainty, type Certainty } from "../../lib/belief";
-import { beliefs, events, missions, type MissionRow } from "../../db/schema";
+import { createFilter, certainty, type Certainty, type Filter } from "../../lib/belief";
+import { beliefs, events, missions, robots, type MissionRow } from "../../db/schema";
+import { motionModelOf, resolveRobotSettings, sensorModelOf } from "../../lib/roster";
+import type { SensorSpec } from "../../lib/sensing";
 import { HEADINGS } from "../../lib/vocabulary";
 import { TesseraError } from "../errors";
 import type { Fleet } from "./fleet";
@@ -50,10 +52,18 @@ export async function replayMission(fleet: Fleet, missionId: number, step?: numb
   const target = k === 0 ? start.eventId : steps[k - 1].id;
 
   const runtime = fleet.robots.get(mission.robotId);
-  if (!runtime) throw new TesseraError("not_found", "replay", `Robot ${mission.robotId} of mission ${missionId} is not on the roster.`);
   const plan = await fleet.planOf(mission.versionId);
-  const shared = runtime.versionId === mission.versionId ? { table: runtime.filter.table, ranges: runtime.filter.ranges } : {};
-  const filter = createFilter(plan, runtime.motion, runtime.sensors, runtime.sensorModel, shared);
+  let filter: Filter;
+  if (runtime) {
+    const shared = runtime.versionId === mission.versionId ? { table: runtime.filter.table, ranges: runtime.filter.ranges } : {};
+    filter = createFilter(plan, runtime.motion, runtime.sensors, runtime.sensorModel, shared);
+  } else {
+    // A retired robot is off the live floor; its missions replay with the models of its roster row.
+    const row = (await db.select().from(robots).where(eq(robots.id, mission.robotId)).limit(1))[0];
+    if (!row) throw new TesseraError("not_found", "replay", `Robot ${mission.robotId} of mission ${missionId} is not on the roster.`);
+    const { settings } = resolveRobotSettings(row.drive, row.settings);
+    filter = createFilter(plan, motionModelOf(row.drive, settings), row.sensors as SensorSpec[], sensorModelOf(settings));
+  }
 
   // The nearest snapshot at or before the target bounds the work per seek.
   const snapshot = (

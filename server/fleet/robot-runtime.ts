@@ -2,9 +2,10 @@
 import type { Socket } from "socket.io";
 import { certainty, createFilter, type Certainty, type Filter } from "../../lib/belief";
 import type { Floorplan, Tile } from "../../lib/floorplan";
-import { defaultMotion, type MotionModel } from "../../lib/motion";
+import type { MotionModel } from "../../lib/motion";
 import type { Policy } from "../../lib/planning";
-import { defaultSensorModel, type SenseOutcome, type SensorModel, type SensorReading, type SensorSpec } from "../../lib/sensing";
+import { motionModelOf, sensorModelOf, type RobotSettings } from "../../lib/roster";
+import type { SenseOutcome, SensorModel, SensorReading, SensorSpec } from "../../lib/sensing";
 import type { Action, Drive, HoldReason, MissionOutcome } from "../../lib/vocabulary";
 import type { QueuedEvent } from "./writer";
 
@@ -29,12 +30,6 @@ export interface MissionRuntime {
   trafficSince: number | null;
   holds: number;
   minCertainty: number;
-}
-
-export interface RobotSettings {
-  motion?: MotionModel;
-  sensor?: SensorModel;
-  pid?: { kp: number; ki: number; kd: number };
 }
 
 export class RobotRuntime {
@@ -63,8 +58,8 @@ export class RobotRuntime {
   filter: Filter;
   /** Certainty of the current belief, computed once per belief change (frames and traffic checks read it often). */
   private certaintyCache: Certainty | null = null;
-  readonly motion: MotionModel;
-  readonly sensorModel: SensorModel;
+  motion: MotionModel;
+  sensorModel: SensorModel;
 
   constructor(
     readonly id: string,
@@ -75,11 +70,22 @@ export class RobotRuntime {
     public versionId: number,
     public plan: Floorplan,
     public sensors: SensorSpec[],
-    readonly settings: RobotSettings,
+    public settings: RobotSettings,
   ) {
-    this.motion = settings.motion ?? defaultMotion(drive);
-    this.sensorModel = settings.sensor ?? defaultSensorModel();
+    this.motion = motionModelOf(drive, settings);
+    this.sensorModel = sensorModelOf(settings);
     this.filter = createFilter(plan, this.motion, sensors, this.sensorModel);
+  }
+
+  /** New tuning from the roster: the filter is rebuilt on the new models, keeping the belief, so the next update uses them. */
+  applySettings(settings: RobotSettings): void {
+    const belief = Float64Array.from(this.filter.belief);
+    this.settings = settings;
+    this.motion = motionModelOf(this.drive, settings);
+    this.sensorModel = sensorModelOf(settings);
+    this.filter = createFilter(this.plan, this.motion, this.sensors, this.sensorModel, { ranges: this.filter.ranges });
+    this.filter.reset(belief);
+    this.certaintyCache = null;
   }
 
   /** Rebuilds the filter for a new sensor set, keeping the belief. */

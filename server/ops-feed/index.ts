@@ -88,6 +88,7 @@ export function attachOpsFeed(io: Server, fleet?: Fleet): void {
 
   if (!fleet) return;
   fleet.on("robot", (frame) => nsp.to(room(frame.floorplanId)).emit(OPS_EVENTS.robot, frame));
+  fleet.on("removed", (gone) => nsp.to(room(gone.floorplanId)).emit(OPS_EVENTS.removed, { robotId: gone.robotId }));
   fleet.on("alert", (alert) =>
     nsp.to(room(alert.floorplanId)).emit(OPS_EVENTS.alert, { id: alert.id, robotId: alert.robotId, kind: alert.kind, message: alert.message, createdAt: alert.createdAt, ackBy: null, ackAt: null }),
   );

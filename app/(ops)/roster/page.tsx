@@ -1,10 +1,11 @@
 import type { Metadata } from "next";
-import { ComingLater } from "@/components/shell/ComingLater";
-import { requirePageRole } from "@/server/facade";
+import { RosterScreen } from "@/components/roster/RosterScreen";
+import { floorplanChoices, listRoster, requirePageRole } from "@/server/facade";
 
 export const metadata: Metadata = { title: "Roster" };
 
 export default async function Page() {
-  await requirePageRole("viewer", "/roster");
-  return <ComingLater title="Roster" what="Robot registration, keys and tuning arrive with the admin screens." />;
+  const user = await requirePageRole("viewer", "/roster");
+  const [robots, floorplans] = await Promise.all([listRoster(), floorplanChoices()]);
+  return <RosterScreen robots={robots} floorplans={floorplans} isAdmin={user.role === "admin"} />;
 }

@@ -1,0 +1,3 @@
+export * from "./settings";
+export * from "./register";
+export * from "./views";
