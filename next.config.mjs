@@ -1,3 +1,5 @@
+import process from "node:process";
+
 const production = process.env.NODE_ENV === "production";
 
 /**
