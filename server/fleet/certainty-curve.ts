@@ -13,6 +13,7 @@ import { beliefs, events, missions } from "../../db/schema";
 import { TesseraError } from "../errors";
 import type { Fleet } from "./fleet";
 import { applyToFilter, FILTER_EVENT_KINDS } from "./filter-events";
+import { MODELS_EVENT, modelsAt, sameModels, type Models } from "./models-at";
 
 /** The robot's models with a what-if's fields laid over them. */
 export function withOverrides(motion: MotionModel, sensor: SensorModel, whatIf: WhatIf): { motion: MotionModel; sensor: SensorModel } {
@@ -53,12 +54,17 @@ export async function certaintyCurve(fleet: Fleet, missionId: number, whatIf?: W
   if (!runtime) throw new TesseraError("not_found", "certainty", `Robot ${mission.robotId} of mission ${missionId} is not on the roster.`);
 
   const own = { motion: runtime.motion, sensor: runtime.sensorModel };
-  const models = whatIf ? withOverrides(own.motion, own.sensor, whatIf) : own;
+  // The live curve follows the models the robot ran with, retunings included; a what-if
+  // lays its parameters over the models at the start and keeps them throughout.
+  const atStart = await modelsAt(db, mission.robotId, start.eventId, own);
   const plan = await fleet.planOf(mission.versionId);
   const sameVersion = runtime.versionId === mission.versionId;
-  // The transition table depends on the motion model, the range table only on the plan and sensors.
-  const shared = sameVersion ? { ranges: runtime.filter.ranges, ...(whatIf?.motion ? {} : { table: runtime.filter.table }) } : {};
-  const filter = createFilter(plan, models.motion, runtime.sensors, models.sensor, shared);
+  const build = (models: Models) => {
+    // The transition table depends on the motion model, the range table only on the plan and sensors.
+    const shared = sameVersion ? { ranges: runtime.filter.ranges, ...(sameModels(models, own) ? { table: runtime.filter.table } : {}) } : {};
+    return createFilter(plan, models.motion, runtime.sensors, models.sensor, shared);
+  };
+  let filter = build(whatIf ? withOverrides(atStart.motion, atStart.sensor, whatIf) : atStart);
   filter.reset(float64(start.belief));
 
   const steps = await db
@@ -71,14 +77,22 @@ export async function certaintyCurve(fleet: Fleet, missionId: number, whatIf?: W
   const applied = await db
     .select({ id: events.id, kind: events.kind, payload: events.payload })
     .from(events)
-    .where(and(eq(events.robotId, mission.robotId), inArray(events.kind, [...FILTER_EVENT_KINDS]), gt(events.id, start.eventId), lte(events.id, lastId)))
+    .where(and(eq(events.robotId, mission.robotId), inArray(events.kind, [...FILTER_EVENT_KINDS, MODELS_EVENT]), gt(events.id, start.eventId), lte(events.id, lastId)))
     .orderBy(asc(events.id));
   const stepIds = new Map(steps.map((s, i) => [s.id, { step: i + 1, at: s.receivedAt.getTime() }]));
 
-  const target = { plan, move: filter.motion.bind(filter), sense: filter.sense.bind(filter), reset: filter.reset.bind(filter) };
+  const target = { plan, move: (a: Parameters<typeof filter.motion>[0]) => filter.motion(a), sense: (r: Parameters<typeof filter.sense>[0]) => filter.sense(r), reset: (b?: ArrayLike<number>) => filter.reset(b) };
   const c0 = certainty(plan, filter.belief);
   const points = [{ step: 0, at: mission.startedAt.getTime(), tileMass: c0.tileMass, entropy: c0.entropy }];
   for (const e of applied) {
+    if (e.kind === MODELS_EVENT) {
+      if (!whatIf) {
+        const belief = Float64Array.from(filter.belief);
+        filter = build(e.payload as Models);
+        filter.reset(belief);
+      }
+      continue;
+    }
     applyToFilter(target, e.kind, e.payload as Record<string, unknown>);
     const at = stepIds.get(e.id);
     if (!at) continue;

@@ -34,6 +34,7 @@ import { TesseraError } from "../errors";
 import { logger } from "../logger";
 import { PolicyCache } from "./policy-cache";
 import { likelyTile } from "./route-preview";
+import { MODELS_EVENT } from "./models-at";
 import { applyToFilter, FILTER_EVENT_KINDS } from "./filter-events";
 import { missionRef, robotFrame, robotState } from "./frames";
 import { RobotRuntime, type MissionRuntime } from "./robot-runtime";
@@ -703,7 +704,13 @@ export class Fleet extends EventEmitter<FleetEvents> {
     const runtime = this.robots.get(robotId);
     if (!runtime) return;
     // Between two messages, never halfway through one's motion and sense updates.
-    runtime.chain = runtime.chain.then(() => runtime.applySettings(settings));
+    runtime.chain = runtime.chain.then(async () => {
+      const before = { motion: runtime.motion, sensor: runtime.sensorModel };
+      runtime.applySettings(settings);
+      // Logged in line with the messages, so replay switches models exactly where the live filter did.
+      this.logCommand(runtime, "operator", MODELS_EVENT, { motion: runtime.motion, sensor: runtime.sensorModel, before });
+      await this.writer.commit();
+    });
     await runtime.chain;
   }
 

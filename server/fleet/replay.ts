@@ -13,6 +13,7 @@ import { HEADINGS } from "../../lib/vocabulary";
 import { TesseraError } from "../errors";
 import type { Fleet } from "./fleet";
 import { applyToFilter, FILTER_EVENT_KINDS, type FilterTarget } from "./filter-events";
+import { MODELS_EVENT, modelsAt, sameModels, type Models } from "./models-at";
 
 export interface ReplayResult {
   mission: MissionRow;
@@ -53,16 +54,18 @@ export async function replayMission(fleet: Fleet, missionId: number, step?: numb
 
   const runtime = fleet.robots.get(mission.robotId);
   const plan = await fleet.planOf(mission.versionId);
-  let filter: Filter;
+  let current: Models;
+  let sensors: SensorSpec[];
   if (runtime) {
-    const shared = runtime.versionId === mission.versionId ? { table: runtime.filter.table, ranges: runtime.filter.ranges } : {};
-    filter = createFilter(plan, runtime.motion, runtime.sensors, runtime.sensorModel, shared);
+    current = { motion: runtime.motion, sensor: runtime.sensorModel };
+    sensors = runtime.sensors;
   } else {
     // A retired robot is off the live floor; its missions replay with the models of its roster row.
     const row = (await db.select().from(robots).where(eq(robots.id, mission.robotId)).limit(1))[0];
     if (!row) throw new TesseraError("not_found", "replay", `Robot ${mission.robotId} of mission ${missionId} is not on the roster.`);
     const { settings } = resolveRobotSettings(row.drive, row.settings);
-    filter = createFilter(plan, motionModelOf(row.drive, settings), row.sensors as SensorSpec[], sensorModelOf(settings));
+    current = { motion: motionModelOf(row.drive, settings), sensor: sensorModelOf(settings) };
+    sensors = row.sensors as SensorSpec[];
   }
 
   // The nearest snapshot at or before the target bounds the work per seek.
@@ -74,11 +77,17 @@ export async function replayMission(fleet: Fleet, missionId: number, step?: numb
       .orderBy(desc(beliefs.eventId), desc(beliefs.id))
       .limit(1)
   )[0];
+  const build = (models: Models): Filter => {
+    const live = runtime && runtime.versionId === mission.versionId;
+    const shared = live ? { ranges: runtime.filter.ranges, ...(sameModels(models, current) ? { table: runtime.filter.table } : {}) } : {};
+    return createFilter(plan, models.motion, sensors, models.sensor, shared);
+  };
+  let filter = build(await modelsAt(db, mission.robotId, snapshot.eventId, current));
   filter.reset(float64(snapshot.belief));
   const later = await db
     .select({ kind: events.kind, payload: events.payload })
     .from(events)
-    .where(and(eq(events.robotId, mission.robotId), inArray(events.kind, [...FILTER_EVENT_KINDS]), gt(events.id, snapshot.eventId), lte(events.id, target)))
+    .where(and(eq(events.robotId, mission.robotId), inArray(events.kind, [...FILTER_EVENT_KINDS, MODELS_EVENT]), gt(events.id, snapshot.eventId), lte(events.id, target)))
     .orderBy(asc(events.id));
   const replayTarget: FilterTarget = {
     plan,
@@ -86,7 +95,13 @@ export async function replayMission(fleet: Fleet, missionId: number, step?: numb
     sense: (readings) => filter.sense(readings),
     reset: (b) => filter.reset(b),
   };
-  for (const e of later) applyToFilter(replayTarget, e.kind, e.payload as Record<string, unknown>);
+  for (const e of later) {
+    if (e.kind === MODELS_EVENT) {
+      const belief = Float64Array.from(filter.belief);
+      filter = build(e.payload as Models);
+      filter.reset(belief);
+    } else applyToFilter(replayTarget, e.kind, e.payload as Record<string, unknown>);
+  }
 
   const truthRow = (
     await db

@@ -2,6 +2,8 @@
 import { asc, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { beliefs } from "../../db/schema";
+import { defaultRobotSettings } from "../../lib/roster";
+import { certaintyCurve } from "../../server/fleet/certainty-curve";
 import { replayMission } from "../../server/fleet/replay";
 import { scriptedRobot, startTestServer, type TestServer } from "../support/fleet-server";
 
@@ -56,6 +58,37 @@ describe("replay", () => {
     expect(start.certainty).toMatchObject({ row: 10, col: 16, tileMass: 1 });
     await expect(replayMission(server.fleet, mission.id, 21)).rejects.toThrow("outside mission");
     await server.fleet.cancel(scripted.robot.id, actor);
+    scripted.socket.close();
+  });
+});
+
+describe("replay across a retuning", () => {
+  it("re-runs a mission with the models it ran with, before and after a mid-mission settings change and after a later one", async () => {
+    const scripted = await scriptedRobot(server);
+    const robotId = scripted.robot.id;
+    await server.fleet.relocate(robotId, { row: 10, col: 16, heading: "W" }, actor);
+    const mission = await server.fleet.dispatch(robotId, { row: 10, col: 4 }, actor);
+    const readings = (i: number) => [
+      { sensor: "us-front", rangeM: i % 3 === 0 ? 3 : 1.2 + i * 0.05 },
+      { sensor: "us-left", rangeM: 0.46 },
+      { sensor: "us-right", rangeM: 0.15 + (i % 2) * 0.02 },
+      { sensor: "floor", mark: 0 },
+    ];
+    for (let i = 0; i < 3; i++) await scripted.step(readings(i));
+    const base = defaultRobotSettings("differential");
+    const retuned = { ...base, sensing: { ...base.sensing, range: { ...base.sensing.range, sigmaM: 0.15 } } };
+    await server.fleet.applySettings(robotId, retuned);
+    for (let i = 3; i < 6; i++) await scripted.step(readings(i));
+    const live = Float64Array.from(server.fleet.robots.get(robotId)!.filter.belief);
+    await server.fleet.cancel(robotId, actor);
+    // A later retuning must not change how this mission replays.
+    await server.fleet.applySettings(robotId, { ...base, sensing: { ...base.sensing, range: { ...base.sensing.range, sigmaM: 0.5 } } });
+    await server.fleet.writer.flush();
+
+    const final = await replayMission(server.fleet, mission.id);
+    expect(worstDifference(final.belief, live)).toBeLessThan(1e-6);
+    const curve = await certaintyCurve(server.fleet, mission.id);
+    expect(curve.points.at(-1)!.tileMass).toBeCloseTo(final.certainty.tileMass, 9);
     scripted.socket.close();
   });
 });

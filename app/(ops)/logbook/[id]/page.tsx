@@ -24,6 +24,8 @@ function summary(kind: string, payload: Record<string, unknown>): string {
       return `dispatched by ${String(payload.by)}`;
     case "relocate":
       return `pose hint (${String(payload.row)}, ${String(payload.col)}) by ${String(payload.by)}`;
+    case "models":
+      return "motion and sensor models retuned from the roster";
     case "truth":
       return `true pose (${String(payload.row)}, ${String(payload.col)}) ${String(payload.heading)}`;
     default:
