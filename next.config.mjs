@@ -1,16 +1,16 @@
-import process from "node:process";
-
-const production = process.env.NODE_ENV === "production";
+import { PHASE_DEVELOPMENT_SERVER } from "next/constants.js";
 
 /**
  * The content security policy every page is served under. Next's App Router writes its
  * flight data in inline scripts, hence 'unsafe-inline' for scripts; everything else comes
  * from Tessera's own origin (fonts ship inside the app, the live feed is same-origin).
- * Development adds 'unsafe-eval' for React's dev tooling.
+ * The dev server adds 'unsafe-eval' for React's dev tooling. The phase decides, not
+ * NODE_ENV: a build run from a test runner may see NODE_ENV=test, and the headers of a
+ * build are fixed when it is made.
  */
-const csp = [
+const csp = (dev) => [
   "default-src 'self'",
-  `script-src 'self' 'unsafe-inline'${production ? "" : " 'unsafe-eval'"}`,
+  `script-src 'self' 'unsafe-inline'${dev ? " 'unsafe-eval'" : ""}`,
   "style-src 'self' 'unsafe-inline'",
   "img-src 'self' data: blob:",
   "font-src 'self'",
@@ -22,8 +22,8 @@ const csp = [
   "frame-ancestors 'none'",
 ].join("; ");
 
-const securityHeaders = [
-  { key: "Content-Security-Policy", value: csp },
+const securityHeaders = (dev) => [
+  { key: "Content-Security-Policy", value: csp(dev) },
   { key: "X-Content-Type-Options", value: "nosniff" },
   { key: "X-Frame-Options", value: "DENY" },
   { key: "Referrer-Policy", value: "same-origin" },
@@ -31,10 +31,10 @@ const securityHeaders = [
   { key: "Cross-Origin-Opener-Policy", value: "same-origin" },
 ];
 
-/** @type {import('next').NextConfig} */
-const nextConfig = {
+/** @type {(phase: string) => import('next').NextConfig} */
+const nextConfig = (phase) => ({
   async headers() {
-    return [{ source: "/:path*", headers: securityHeaders }];
+    return [{ source: "/:path*", headers: securityHeaders(phase === PHASE_DEVELOPMENT_SERVER) }];
   },
   reactStrictMode: true,
   poweredByHeader: false,
@@ -46,6 +46,6 @@ const nextConfig = {
     // Lets pages call forbidden() so a signed-in user without the role gets a real 403.
     authInterrupts: true,
   },
-};
+});
 
 export default nextConfig;
