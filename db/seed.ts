@@ -51,10 +51,11 @@ export interface DemoFleetCredentials {
   robots: (DemoRobot & { key: string })[];
 }
 
-export async function seedDemoUsers(db: Db, opts: { demoPassword: string }): Promise<void> {
+/** Seeds the demo accounts; `onCall` names those who receive alert e-mails from the start. */
+export async function seedDemoUsers(db: Db, opts: { demoPassword: string; onCall?: readonly string[] }): Promise<void> {
   const passwordHash = await bcrypt.hash(opts.demoPassword, 10);
   for (const user of DEMO_USERS) {
-    await db.insert(users).ignore().values({ ...user, passwordHash });
+    await db.insert(users).ignore().values({ ...user, passwordHash, onCall: opts.onCall?.includes(user.email) ?? false });
   }
 }
 

@@ -47,7 +47,7 @@ export async function prepareDatabase(opts: {
   database: string;
   fresh?: boolean;
   /** Seeds the demo; the fleet's keys are kept in `fleetFile` (under .data/) across runs. */
-  seed?: { demoPassword: string; fleetFile?: string };
+  seed?: { demoPassword: string; fleetFile?: string; onCall?: readonly string[] };
   log?: (line: string) => void;
 }): Promise<PreparedDb> {
   const log = opts.log ?? ((line: string) => console.log(`tessera: ${line}`));

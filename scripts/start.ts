@@ -42,7 +42,8 @@ const db = await prepareDatabase({
   instance: "mariadb",
   port: Number(process.env.TESSERA_DB_PORT ?? 3407),
   database: "tessera",
-  seed: { demoPassword, fleetFile: path.join(DATA_DIR, "demo-fleet.json") },
+  // The demo operator is on call, so alert e-mails show on the Sent mail page from the start.
+  seed: { demoPassword, fleetFile: path.join(DATA_DIR, "demo-fleet.json"), onCall: ["operator@tessera.test"] },
 });
 buildIfStale();
 
