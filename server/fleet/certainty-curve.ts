@@ -12,7 +12,7 @@ import type { SensorModel } from "../../lib/sensing";
 import { beliefs, events, missions } from "../../db/schema";
 import { TesseraError } from "../errors";
 import type { Fleet } from "./fleet";
-import { applyToFilter, FILTER_EVENT_KINDS } from "./filter-events";
+import { applyToFilter, FILTER_EVENT_KINDS, type FilterTarget } from "./filter-events";
 import { MODELS_EVENT, modelsAt, sameModels, type Models } from "./models-at";
 
 /** The robot's models with a what-if's fields laid over them. */
@@ -81,7 +81,7 @@ export async function certaintyCurve(fleet: Fleet, missionId: number, whatIf?: W
     .orderBy(asc(events.id));
   const stepIds = new Map(steps.map((s, i) => [s.id, { step: i + 1, at: s.receivedAt.getTime() }]));
 
-  const target = { plan, move: (a: Parameters<typeof filter.motion>[0]) => filter.motion(a), sense: (r: Parameters<typeof filter.sense>[0]) => filter.sense(r), reset: (b?: ArrayLike<number>) => filter.reset(b) };
+  const target: FilterTarget = { plan, move: (action) => filter.motion(action), sense: (readings) => filter.sense(readings), reset: (b) => filter.reset(b) };
   const c0 = certainty(plan, filter.belief);
   const points = [{ step: 0, at: mission.startedAt.getTime(), tileMass: c0.tileMass, entropy: c0.entropy }];
   for (const e of applied) {

@@ -7,6 +7,7 @@ import { z } from "zod";
 import { FloorplanParseError, freeTileCount, parseFloorplan, type Floorplan } from "../../lib/floorplan";
 import { FLOORPLAN_UPLOAD_MAX_BYTES, type ImportOptions } from "../../lib/protocol";
 import { TesseraError, zodFields } from "../errors";
+import { readMultipart } from "../http/multipart";
 
 /** Room for the multipart boundaries and the small text fields around the file. */
 const FORM_OVERHEAD_BYTES = 64 * 1024;
@@ -19,47 +20,14 @@ export interface UploadedFile {
 
 export type UploadKind = "png" | "pgm" | "text";
 
-async function readCapped(req: Request, surface: string): Promise<Uint8Array<ArrayBuffer>> {
-  const limit = FLOORPLAN_UPLOAD_MAX_BYTES + FORM_OVERHEAD_BYTES;
-  const tooLarge = () => new TesseraError("too_large", surface, `The upload is larger than the ${FLOORPLAN_UPLOAD_MAX_BYTES / (1024 * 1024)} MB limit.`, { fields: { file: ["file too large"] } });
-  const declared = Number(req.headers.get("content-length") ?? "0");
-  if (declared > limit) throw tooLarge();
-  if (!req.body) return new Uint8Array(new ArrayBuffer(0));
-  const reader = req.body.getReader();
-  const chunks: Uint8Array[] = [];
-  let total = 0;
-  for (;;) {
-    const { done, value } = await reader.read();
-    if (done) break;
-    total += value.byteLength;
-    if (total > limit) {
-      await reader.cancel();
-      throw tooLarge();
-    }
-    chunks.push(value);
-  }
-  const out = new Uint8Array(new ArrayBuffer(total));
-  let at = 0;
-  for (const chunk of chunks) {
-    out.set(chunk, at);
-    at += chunk.byteLength;
-  }
-  return out;
-}
-
 /** Reads a multipart form of at most FLOORPLAN_UPLOAD_MAX_BYTES of file: the `file` part and the text fields. */
 export async function readUploadForm(req: Request, surface: string): Promise<{ file: UploadedFile; fields: Record<string, string> }> {
-  const type = req.headers.get("content-type") ?? "";
-  if (!type.startsWith("multipart/form-data")) {
-    throw new TesseraError("unsupported", surface, "Send the floorplan as multipart/form-data with a `file` part.");
-  }
-  const body = await readCapped(req, surface);
-  let form: FormData;
-  try {
-    form = await new Response(body, { headers: { "content-type": type } }).formData();
-  } catch (cause) {
-    throw new TesseraError("bad_request", surface, "The multipart body could not be read.", { cause });
-  }
+  const form = await readMultipart(req, {
+    maxBytes: FLOORPLAN_UPLOAD_MAX_BYTES + FORM_OVERHEAD_BYTES,
+    surface,
+    tooLarge: () => new TesseraError("too_large", surface, `The upload is larger than the ${FLOORPLAN_UPLOAD_MAX_BYTES / (1024 * 1024)} MB limit.`, { fields: { file: ["file too large"] } }),
+    notMultipart: "Send the floorplan as multipart/form-data with a `file` part.",
+  });
   const part = form.get("file");
   if (!(part instanceof Blob)) throw new TesseraError("bad_request", surface, "Choose a file to import.", { fields: { file: ["missing file"] } });
   if (part.size > FLOORPLAN_UPLOAD_MAX_BYTES) throw new TesseraError("too_large", surface, `The file is larger than the ${FLOORPLAN_UPLOAD_MAX_BYTES / (1024 * 1024)} MB limit.`, { fields: { file: ["file too large"] } });

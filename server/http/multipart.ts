@@ -5,16 +5,24 @@
  */
 import { TesseraError } from "../errors";
 
-export async function readMultipart(req: Request, maxBytes: number, surface: string): Promise<FormData> {
+export interface MultipartLimits {
+  maxBytes: number;
+  surface: string;
+  /** The refusal of a body over the bound; the default names the limit. */
+  tooLarge?: () => TesseraError;
+  /** What a body that is not multipart/form-data is told. */
+  notMultipart?: string;
+}
+
+export async function readMultipart(req: Request, limits: MultipartLimits): Promise<FormData> {
+  const { maxBytes, surface } = limits;
   const type = req.headers.get("content-type") ?? "";
   if (!type.startsWith("multipart/form-data")) {
-    throw new TesseraError("unsupported", surface, `Send the form as multipart/form-data, not ${type || "an untyped body"}.`);
+    throw new TesseraError("unsupported", surface, limits.notMultipart ?? `Send the form as multipart/form-data, not ${type || "an untyped body"}.`);
   }
-  const limitMb = (maxBytes / 1048576).toFixed(0);
+  const tooLarge = limits.tooLarge ?? (() => new TesseraError("too_large", surface, `The upload is over the ${(maxBytes / 1048576).toFixed(0)} MB limit.`));
   const declared = Number(req.headers.get("content-length") ?? NaN);
-  if (Number.isFinite(declared) && declared > maxBytes) {
-    throw new TesseraError("too_large", surface, `The upload is ${(declared / 1048576).toFixed(1)} MB; the limit is ${limitMb} MB.`);
-  }
+  if (Number.isFinite(declared) && declared > maxBytes) throw tooLarge();
   const chunks: Uint8Array[] = [];
   let total = 0;
   const reader = req.body?.getReader();
@@ -25,7 +33,7 @@ export async function readMultipart(req: Request, maxBytes: number, surface: str
       total += value.byteLength;
       if (total > maxBytes) {
         await reader.cancel();
-        throw new TesseraError("too_large", surface, `The upload is over the ${limitMb} MB limit.`);
+        throw tooLarge();
       }
       chunks.push(value);
     }

@@ -10,7 +10,7 @@ export const GET = route({ role: "viewer", surface: "notes" }, async ({ params }
 /** A note with up to four photos, as multipart fields `text`, `step` (optional) and `photo` (repeated). */
 export const POST = route({ role: "operator", surface: "notes" }, async ({ req, params, user }) => {
   const missionId = missionIdParam(params.id, "notes");
-  const form = await readMultipart(req, NOTE_BODY_MAX_BYTES, "notes");
+  const form = await readMultipart(req, { maxBytes: NOTE_BODY_MAX_BYTES, surface: "notes" });
   const step = form.get("step");
   const fields = NoteFieldsSchema.safeParse({ text: form.get("text") ?? "", step: typeof step === "string" && step !== "" ? step : undefined });
   if (!fields.success) throw new TesseraError("bad_request", "notes", "The note is not valid.", { fields: zodFields(fields.error) });
