@@ -24,7 +24,7 @@ export default defineConfig({
         resolve: { alias },
         test: {
           name: "integration",
-          include: ["tests/integration/**/*.test.ts"],
+          include: ["tests/integration/**/*.test.ts", "tests/faults/**/*.test.ts"],
           environment: "node",
           globalSetup: ["tests/support/global-db.ts"],
           fileParallelism: false,

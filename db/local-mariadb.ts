@@ -36,14 +36,22 @@ function findBinary(name: string): string | undefined {
   return which.status === 0 ? which.stdout.trim() : undefined;
 }
 
-/** Installs Debian's mariadb-server when mariadbd is missing (needs root, as on CI). */
-export function ensureMariadbInstalled(log: (line: string) => void = () => {}): void {
-  if (findBinary("mariadbd")) return;
-  log("mariadbd not found; installing Debian's mariadb-server (apt-get)");
+/** The path of `binary`, installing Debian's `debianPackage` with apt-get first when it is missing (needs root, as on CI). */
+export function ensureDebianBinary(binary: string, debianPackage: string, log: (line: string) => void = () => {}): string {
+  const found = findBinary(binary);
+  if (found) return found;
+  log(`${binary} not found; installing Debian's ${debianPackage} (apt-get)`);
   const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
   execFileSync("apt-get", ["update", "-qq"], { stdio: "inherit", env });
-  execFileSync("apt-get", ["install", "-y", "-qq", "mariadb-server"], { stdio: "inherit", env });
-  if (!findBinary("mariadbd")) throw new Error("mariadb-server was installed but mariadbd is still missing");
+  execFileSync("apt-get", ["install", "-y", "-qq", debianPackage], { stdio: "inherit", env });
+  const installed = findBinary(binary);
+  if (!installed) throw new Error(`${debianPackage} was installed but ${binary} is still missing`);
+  return installed;
+}
+
+/** Installs Debian's mariadb-server when mariadbd is missing. */
+export function ensureMariadbInstalled(log: (line: string) => void = () => {}): void {
+  ensureDebianBinary("mariadbd", "mariadb-server", log);
 }
 
 function isRoot(): boolean {
@@ -115,6 +123,9 @@ export async function startLocalMariadb(opts: LocalMariadbOptions): Promise<Loca
         "--character-set-server=utf8mb4",
         "--collation-server=utf8mb4_unicode_ci",
         "--max-connections=300",
+        // A belief snapshot or a policy of the largest floorplan (512 × 512) is 8–9 MB, and its
+        // escaped insert passes the 16 MB default; a refused packet also kills the connection.
+        "--max-allowed-packet=64M",
       ],
       { detached: true, stdio: "ignore" },
     );

@@ -115,6 +115,8 @@ export interface RobotClientOptions {
   /** Every accepted hello ack (carries lastSeq, state and the active mission). */
   onHello?: (ack: Extract<Ack, { ok: true }>) => void;
   onState?: (state: LinkState, detail: { code?: string; reason?: string }) => void;
+  /** Every acknowledgement as it arrives, the refusals this client retries included: for monitoring. */
+  onAck?: (event: RobotEventName, seq: number, ack: Ack) => void;
   logger?: LinkLogger;
 }
 
@@ -282,6 +284,7 @@ export function createRobotClient(opts: RobotClientOptions): RobotClient {
         return;
       }
       const ack = parsed.data;
+      opts.onAck?.("hello", hello.seq, ack);
       if (ack.ok) {
         helloAcked = true;
         retryAttempts = 0;
@@ -339,6 +342,7 @@ export function createRobotClient(opts: RobotClientOptions): RobotClient {
         return;
       }
       const parsed = AckSchema.safeParse(raw);
+      if (parsed.success) opts.onAck?.(entry.event, entry.message.seq, parsed.data);
       if (!parsed.success || (parsed.data.ok === false && RETRIED_ACK_CODES.has(parsed.data.code))) {
         inFlight = true;
         retryTimer = setTimeout(() => {

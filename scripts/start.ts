@@ -1,6 +1,14 @@
 /**
  * `npm start`: private MariaDB, migrations, demo seed, production build when the sources
  * changed, then the server on http://127.0.0.1:3000 (PORT overrides).
+ *
+ * Two nodes on one machine (README, "Growing past one machine"): give both the same
+ * REDIS_URL on loopback and different ports; the first starts a private Redis there when
+ * none answers and owns it and the private MariaDB (stop it last); the second, started once
+ * the first is up, runs no simulators of its own and its mail catcher on another port:
+ *
+ *   REDIS_URL=redis://127.0.0.1:6379 npm start
+ *   REDIS_URL=redis://127.0.0.1:6379 PORT=3001 MAIL_CATCHER_PORT=2526 TESSERA_DEMO_FLEET=off npm start
  */
 import { execFileSync, spawn } from "node:child_process";
 import { createHash } from "node:crypto";
@@ -8,6 +16,7 @@ import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { DEMO_USERS } from "../db/seed";
 import { DATA_DIR, keptSecret, prepareDatabase, ROOT } from "./local-env";
+import { startLocalRedis, type LocalRedis } from "./local-redis";
 
 const port = Number(process.env.PORT ?? 3000);
 const host = process.env.HOST ?? "127.0.0.1";
@@ -46,6 +55,18 @@ const db = await prepareDatabase({
   seed: { demoPassword, fleetFile: path.join(DATA_DIR, "demo-fleet.json"), onCall: ["operator@tessera.test"] },
 });
 buildIfStale();
+
+/** A private Redis when REDIS_URL names a loopback port where nothing answers yet. */
+async function localRedis(): Promise<LocalRedis | undefined> {
+  const raw = process.env.REDIS_URL;
+  if (!raw) return undefined;
+  const url = new URL(raw);
+  if (!["127.0.0.1", "localhost"].includes(url.hostname) || url.password) return undefined;
+  return startLocalRedis({ dir: path.join(DATA_DIR, "redis"), port: Number(url.port || 6379), log: (line) => console.log(`tessera: ${line}`) });
+}
+const redis = await localRedis();
+// A node that found Redis already running is a second node: the first one's services stay up when it stops.
+const ownsServices = !redis || redis.started;
 
 const server = spawn(process.execPath, ["--import", "tsx", "server/index.ts"], {
   cwd: ROOT,
@@ -102,7 +123,11 @@ async function stop(code: number): Promise<void> {
     server.kill("SIGTERM");
     await new Promise((resolve) => server.once("exit", resolve));
   }
-  if (db.local) {
+  if (redis?.started) {
+    console.log("tessera: stopping Redis (nodes still using it lose their robots after the lease time)");
+    await redis.stop();
+  }
+  if (db.local && ownsServices) {
     console.log("tessera: stopping MariaDB");
     await db.local.stop();
   }
@@ -122,6 +147,10 @@ if (await waitForHealth()) {
       (process.env.SMTP_HOST
         ? `  Mail goes out through ${process.env.SMTP_HOST}.\n`
         : "  Mail (invites, resets) is caught on loopback, not delivered: admins read it under Sent mail (/mail).\n") +
+      (process.env.REDIS_URL
+        ? `  This node shares the fleet through ${process.env.REDIS_URL}; another node on this machine:\n` +
+          `    REDIS_URL=${process.env.REDIS_URL} PORT=${port + 1} MAIL_CATCHER_PORT=${Number(process.env.MAIL_CATCHER_PORT ?? 2525) + 1} TESSERA_DEMO_FLEET=off npm start\n`
+        : "") +
       "  Press Ctrl+C to stop.\n",
   );
 } else {

@@ -4,16 +4,40 @@
  */
 import { z } from "zod";
 
-const ConfigSchema = z.object({
-  NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
-  HOST: z.string().default("127.0.0.1"),
-  PORT: z.coerce.number().int().min(1).max(65535).default(3000),
-  DATABASE_URL: z.string().url({ message: "DATABASE_URL must be a mysql:// URL" }),
-  NEXTAUTH_SECRET: z.string().min(16, "NEXTAUTH_SECRET must be at least 16 characters"),
-  NEXTAUTH_URL: z.string().url().optional(),
-  LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info"),
-  DEMO_PASSWORD: z.string().min(8).default("demo-tessera"),
-});
+const NodeEnv = z.enum(["development", "production", "test"]).default("development");
+const LogLevel = z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info");
+
+const required = (what: string) => ({ error: (issue: { input: unknown }) => (issue.input === undefined ? `is not set; ${what}` : `must be ${what}`) });
+
+/** Production signs sessions for real users: a secret as long as `npm start` generates, not a short typed one. */
+const PRODUCTION_SECRET_CHARS = 32;
+
+const ConfigSchema = z
+  .object({
+    NODE_ENV: NodeEnv,
+    HOST: z.string().default("127.0.0.1"),
+    PORT: z.coerce.number().int().min(1).max(65535).default(3000),
+    DATABASE_URL: z.string(required("set it to the mysql:// URL of the database")).url({ message: "must be a mysql:// URL" }),
+    NEXTAUTH_SECRET: z.string(required("set it to a random string of at least 16 characters")).min(16, "must be at least 16 characters"),
+    NEXTAUTH_URL: z.string().url().optional(),
+    LOG_LEVEL: LogLevel,
+    DEMO_PASSWORD: z.string().min(8).default("demo-tessera"),
+    /** "off" serves only the robot link, the /ops feed and /api/health: a node that drives robots without rendering pages. */
+    TESSERA_PAGES: z.enum(["on", "off"]).default("on"),
+    /**
+     * "true" when Tessera sits behind a reverse proxy of its own that appends the client's
+     * address to X-Forwarded-For; otherwise that header is the client's to forge and is ignored.
+     */
+    TRUSTED_PROXY: z
+      .enum(["true", "false"], { message: 'must be "true" or "false"' })
+      .default("false")
+      .transform((v) => v === "true"),
+  })
+  .superRefine((c, ctx) => {
+    if (c.NODE_ENV === "production" && c.NEXTAUTH_SECRET.length < PRODUCTION_SECRET_CHARS) {
+      ctx.addIssue({ code: "custom", path: ["NEXTAUTH_SECRET"], message: `must be at least ${PRODUCTION_SECRET_CHARS} characters in production` });
+    }
+  });
 
 export type Config = z.infer<typeof ConfigSchema>;
 
@@ -31,7 +55,7 @@ export function config(): Config {
   return cached;
 }
 
-const RuntimeSchema = ConfigSchema.pick({ NODE_ENV: true, LOG_LEVEL: true });
+const RuntimeSchema = z.object({ NODE_ENV: NodeEnv, LOG_LEVEL: LogLevel });
 
 /** The settings that logging needs, readable before the secrets are in place. */
 export function runtimeEnv(): z.infer<typeof RuntimeSchema> {
@@ -59,6 +83,8 @@ const FleetConfigSchema = z.object({
   trafficMass: z.coerce.number().min(0).max(1).default(0.4),
   /** A traffic wait this long re-plans around the blocking robot, ms. */
   trafficReplanMs: z.coerce.number().int().min(0).default(6000),
+  /** Consecutive moves the robot's odometry says did not happen (bumped, blocked) before it is held with reason fault. */
+  stuckAfterMoves: z.coerce.number().int().min(1).default(3),
   /** Steps after which a mission that has not arrived fails. */
   maxMissionSteps: z.coerce.number().int().min(1).default(400),
   /** Fused steps between belief snapshots. */
@@ -89,6 +115,7 @@ const FLEET_ENV: Record<keyof FleetConfig, string> = {
   arriveMass: "FLEET_ARRIVE_MASS",
   trafficMass: "FLEET_TRAFFIC_MASS",
   trafficReplanMs: "FLEET_TRAFFIC_REPLAN_MS",
+  stuckAfterMoves: "FLEET_STUCK_AFTER_MOVES",
   maxMissionSteps: "FLEET_MAX_MISSION_STEPS",
   snapshotEvery: "FLEET_SNAPSHOT_EVERY",
   writeTickMs: "FLEET_WRITE_TICK_MS",
@@ -197,4 +224,50 @@ export function alertMailConfig(): { windowMs: number } {
   const parsed = AlertMailConfigSchema.safeParse(process.env);
   if (!parsed.success) throw new Error(`Tessera cannot start; ALERT_MAIL_WINDOW_MS ${parsed.error.issues[0].message}`);
   return { windowMs: parsed.data.ALERT_MAIL_WINDOW_MS };
+}
+
+const ClusterConfigSchema = z
+  .object({
+    /** Redis shared by several Tessera nodes; unset runs one node alone, with no Redis at all. */
+    REDIS_URL: z.url({ protocol: /^rediss?$/, message: "must be a redis:// URL" }).optional(),
+    /** This node's name in leases and logs; defaults to host and port, unique on one machine. */
+    TESSERA_NODE_ID: z.string().regex(/^[A-Za-z0-9._-]{1,60}$/, "must be 1 to 60 letters, digits, dots, dashes or underscores").optional(),
+    /** How long a robot's lease outlives its node's last renewal, ms: the takeover time after a node dies. */
+    TESSERA_LEASE_TTL_MS: z.coerce.number().int().min(500).default(5000),
+    /** Lease renewal period, ms; well under the TTL so that one late renewal does not lose the robot. */
+    TESSERA_LEASE_RENEW_MS: z.coerce.number().int().min(100).default(1500),
+    /** How long a command or frame request waits for the other nodes, ms. */
+    TESSERA_NODE_TIMEOUT_MS: z.coerce.number().int().min(100).default(2000),
+  })
+  .refine((c) => c.TESSERA_LEASE_RENEW_MS * 2 <= c.TESSERA_LEASE_TTL_MS, {
+    message: "must be at most half of TESSERA_LEASE_TTL_MS",
+    path: ["TESSERA_LEASE_RENEW_MS"],
+  });
+
+export interface ClusterConfig {
+  redisUrl: string;
+  nodeId: string;
+  leaseTtlMs: number;
+  leaseRenewMs: number;
+  nodeTimeoutMs: number;
+}
+
+/** Settings for running as one of several nodes, or null when REDIS_URL is unset (one node alone). */
+export function clusterConfig(): ClusterConfig | null {
+  const raw = Object.fromEntries(Object.keys(ClusterConfigSchema.shape).flatMap((name) => (process.env[name] ? [[name, process.env[name]]] : [])));
+  const parsed = ClusterConfigSchema.safeParse(raw);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((issue) => `  ${issue.path.join(".")}: ${issue.message}`);
+    throw new Error(`Tessera cannot start; fix these node settings:\n${lines.join("\n")}`);
+  }
+  const c = parsed.data;
+  if (!c.REDIS_URL) return null;
+  const { HOST, PORT } = config();
+  return {
+    redisUrl: c.REDIS_URL,
+    nodeId: c.TESSERA_NODE_ID ?? `${HOST}-${PORT}`.replace(/[^A-Za-z0-9._-]/g, "_"),
+    leaseTtlMs: c.TESSERA_LEASE_TTL_MS,
+    leaseRenewMs: c.TESSERA_LEASE_RENEW_MS,
+    nodeTimeoutMs: c.TESSERA_NODE_TIMEOUT_MS,
+  };
 }

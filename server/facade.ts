@@ -6,7 +6,7 @@ export { route, errorResponse } from "./http/route";
 export { TesseraError } from "./errors";
 export { healthReport } from "./health";
 export { currentUser, requirePageRole } from "./auth/page-guard";
-export { liveFloorSnapshot, floorplanView, recentAlerts } from "./live-floor";
+export { liveFloorSnapshot, floorplanView, recentAlerts, robotFrameNow } from "./live-floor";
 export { appDb as appDbForRoutes } from "./db";
 export { registerRobot, RegisterRobotSchema } from "./robots-api";
 export { runningFleet } from "./registry";

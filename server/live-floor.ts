@@ -3,11 +3,11 @@ import { desc, eq } from "drizzle-orm";
 import { alerts, users } from "../db/schema";
 import { defaultFloorplanId, latestVersion, listFloorplans, planFromVersion, versionById } from "../db/queries/floorplans";
 import type { Db } from "../db/client";
-import type { AlertFrame, FloorplanView, LiveFloorSnapshot } from "../lib/protocol";
-import { floorplans } from "../db/schema";
+import type { AlertFrame, FloorplanView, LiveFloorSnapshot, RobotFrame } from "../lib/protocol";
+import { floorplans, robots } from "../db/schema";
 import { appDb } from "./db";
 import { TesseraError } from "./errors";
-import { runningFleet } from "./registry";
+import { registry, runningFleet } from "./registry";
 
 /** A floorplan at its latest version, or at `versionId` (the version a mission pinned). */
 export async function floorplanView(floorplanId: number, versionId?: number): Promise<FloorplanView> {
@@ -37,12 +37,29 @@ export async function liveFloorSnapshot(floorplanId?: number): Promise<LiveFloor
   if (id === undefined) throw new TesseraError("not_found", "floorplan", "No floorplan exists yet; an admin can create one under Floorplans.");
   const floorplan = await floorplanView(id);
   const fleet = runningFleet();
+  const floorFrames = registry().floorFrames;
   return {
     floorplan,
     floorplans: await listFloorplans(db),
-    robots: fleet.frames(id),
+    robots: floorFrames ? await floorFrames(id) : fleet.frames(id),
     alerts: await recentAlerts(db),
   };
+}
+
+/**
+ * A robot's frame right after a command: from this node's fleet, or, when several nodes share
+ * the fleet and another one serves the robot, from that node.
+ */
+export async function robotFrameNow(robotId: string): Promise<RobotFrame> {
+  const fleet = runningFleet();
+  const runtime = fleet.robots.get(robotId);
+  if (runtime) return fleet.frame(runtime);
+  const floorFrames = registry().floorFrames;
+  const row = (await appDb().select({ floorplanId: robots.floorplanId }).from(robots).where(eq(robots.id, robotId)).limit(1))[0];
+  const floorplanId = row ? (row.floorplanId ?? (await defaultFloorplanId(appDb()))) : undefined;
+  const frame = floorFrames && floorplanId !== undefined ? (await floorFrames(floorplanId)).find((f) => f.robotId === robotId) : undefined;
+  if (!frame) throw new TesseraError("not_found", "robot", `There is no active robot ${robotId}.`);
+  return frame;
 }
 
 /** The newest alerts with who acknowledged them, newest first. */

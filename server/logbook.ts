@@ -1,7 +1,7 @@
 /** The logbook's queries: missions with filters and server-side paging, a mission's events, exports. */
 import { and, asc, count, desc, eq, gt, gte, inArray, lte, type SQL } from "drizzle-orm";
 import { z } from "zod";
-import { events, floorplanVersions, missions, robots } from "../db/schema";
+import { events, floorplanVersions, missions, robots, type MissionRow } from "../db/schema";
 import { MISSION_STATES } from "../lib/vocabulary";
 import { appDb } from "./db";
 
@@ -15,6 +15,20 @@ export const MissionListQuery = z.object({
   limit: z.coerce.number().int().min(1).max(200).default(50),
 });
 export type MissionListQuery = z.infer<typeof MissionListQuery>;
+
+/** A mission as the logbook and a robot's page list it. */
+export function missionSummary(m: MissionRow) {
+  return {
+    id: m.id,
+    goal: { row: m.goalRow, col: m.goalCol },
+    state: m.state,
+    steps: m.steps,
+    holds: m.holds,
+    minCertainty: m.minCertainty,
+    startedAt: m.startedAt.getTime(),
+    endedAt: m.endedAt ? m.endedAt.getTime() : null,
+  };
+}
 
 /** One page of missions, newest first, with the total for the filters (indexes on robot, state and start). */
 export async function listMissions(q: MissionListQuery) {
@@ -39,17 +53,10 @@ export async function listMissions(q: MissionListQuery) {
   return {
     total,
     items: rows.map(({ mission: m, robotName }) => ({
-      id: m.id,
+      ...missionSummary(m),
       robotId: m.robotId,
       robotName: robotName ?? m.robotId,
       versionId: m.versionId,
-      goal: { row: m.goalRow, col: m.goalCol },
-      state: m.state,
-      steps: m.steps,
-      holds: m.holds,
-      minCertainty: m.minCertainty,
-      startedAt: m.startedAt.getTime(),
-      endedAt: m.endedAt ? m.endedAt.getTime() : null,
       durationS: m.endedAt ? Math.round((m.endedAt.getTime() - m.startedAt.getTime()) / 1000) : null,
     })),
   };

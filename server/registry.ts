@@ -3,11 +3,17 @@
  * bundles route handlers apart from the custom server and module singletons differ.
  */
 import type { Server } from "socket.io";
+import type { OpsCommandName, RobotFrame } from "../lib/protocol";
+import type { SessionUser } from "./auth/options";
 import type { Fleet } from "./fleet/fleet";
 
 interface Registry {
   io?: Server;
   fleet?: Fleet;
+  /** Set when several nodes share the fleet (server/cluster): robot commands run on the robot's owner. */
+  routeCommand?: (name: Exclude<OpsCommandName, "watch" | "ackAlert">, payload: { robotId: string }, user: SessionUser) => Promise<unknown>;
+  /** Set with routeCommand: the frames of every robot of a floorplan, whichever node serves it. */
+  floorFrames?: (floorplanId: number) => Promise<RobotFrame[]>;
 }
 
 const holder = globalThis as unknown as { __tesseraRegistry?: Registry };

@@ -22,6 +22,7 @@ import type { SensorSpec } from "../lib/sensing";
 import { writeAudit } from "./audit/audit";
 import { appDb } from "./db";
 import { TesseraError, zodFields } from "./errors";
+import { missionSummary } from "./logbook";
 import type { Actor } from "./fleet/fleet";
 import { runningFleet } from "./registry";
 
@@ -43,7 +44,7 @@ const PUBLIC_COLUMNS = {
   createdAt: robots.createdAt,
 };
 
-type PublicRobot = Omit<Robot, "keyHash" | "settings">;
+type PublicRobot = Omit<Robot, "keyHash" | "settings" | "fence">;
 
 function liveFrame(robotId: string) {
   const fleet = runningFleet();
@@ -100,7 +101,7 @@ export async function robotDetail(id: string): Promise<RobotDetailView> {
   const row = await robotRow(db, id);
   const names = new Map((await listFloorplans(db)).map((f) => [f.id, f.name]));
   const recent = await db
-    .select({ id: missions.id, goalRow: missions.goalRow, goalCol: missions.goalCol, state: missions.state, steps: missions.steps, holds: missions.holds, minCertainty: missions.minCertainty, startedAt: missions.startedAt, endedAt: missions.endedAt })
+    .select()
     .from(missions)
     .where(eq(missions.robotId, id))
     .orderBy(desc(missions.startedAt), desc(missions.id))
@@ -114,16 +115,7 @@ export async function robotDetail(id: string): Promise<RobotDetailView> {
   return {
     robot: rosterEntry(row, names),
     frame: liveFrame(id),
-    missions: recent.map((m) => ({
-      id: m.id,
-      goal: { row: m.goalRow, col: m.goalCol },
-      state: m.state,
-      steps: m.steps,
-      holds: m.holds,
-      minCertainty: m.minCertainty,
-      startedAt: m.startedAt.getTime(),
-      endedAt: m.endedAt?.getTime() ?? null,
-    })),
+    missions: recent.map(missionSummary),
     certainty: points.reverse().map((p) => ({ at: p.at.getTime(), tileMass: p.tileMass })),
   };
 }

@@ -120,6 +120,28 @@ describe("stepRobot physics", () => {
     expect(s.bumps).toBe(bumpedSteps);
   });
 
+  it("slides along a wall it meets at a glancing angle, without a bump, and still bumps head-on past 30°", () => {
+    // A corridor one tile high: the robot starts against its north wall, pointing 3° into it,
+    // as lateral drift under heading hold leaves a robot after a few tiles.
+    const corridor = parseFloorplan(["11111111", "10000001", "11111111"].join("\n"));
+    const params = idealPlant(defaultPlantParams("differential", corridor.tileM));
+    const r = params.footprintRadiusM;
+    const along = (deg: number): SimState => {
+      const start = createSimState(corridor, params, { row: 1, col: 1, heading: 1 });
+      return { ...start, pose: { x: 1.5 * corridor.tileM, y: corridor.tileM + r + 1e-6, theta: (deg * Math.PI) / 180 } };
+    };
+    const forward: DriveCommand = { kind: "differential", leftMS: 0.2, rightMS: 0.2 };
+    const slid = run(along(3), forward, 300, 0.01);
+    expect(slid.bumps).toBe(0);
+    expect(poseTile(corridor, slid.pose).col).toBeGreaterThanOrEqual(3);
+    expect(footprintPenetrationM(corridor, slid.pose.x, slid.pose.y, r)).toBeLessThanOrEqual(1e-9);
+    // The motion into the wall was dropped, so the centre kept its distance from the wall.
+    expect(slid.pose.y).toBeCloseTo(corridor.tileM + r, 5);
+    const steep = run(along(40), forward, 100, 0.01);
+    expect(steep.bumps).toBeGreaterThan(0);
+    expect(poseTile(corridor, steep.pose)).toEqual({ row: 1, col: 1 });
+  });
+
   it("a stalled wheel stops counting for its seconds and turns again afterwards", () => {
     const plan = emptyFloorplan(20, 20);
     const base = createSimState(plan, defaultPlantParams("differential", plan.tileM), { row: 10, col: 10, heading: 0 });

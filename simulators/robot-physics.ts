@@ -14,9 +14,14 @@
  * (1 + bias) (unequal wheel diameters, a fixed per-robot error) times (1 + slip), where slip
  * is a first-order Gauss–Markov process (correlated noise, so it does not average out within
  * a move as white noise would). Encoders count rotation, not ground travel. The body moves
- * on the exact arc for constant controls over the step. The footprint is a disc; a step
- * that would push it further into a blocked tile or the outside is not taken: the robot
- * keeps its pose, the bump switch cuts the motors, and `bumped` is set for that step.
+ * on the exact arc for constant controls over the step. The footprint is a disc. A step
+ * that meets a wall at a glancing angle (up to GLANCE_RAD between the motion and the wall)
+ * slides along it: the part of the motion into the wall is dropped, as a bumper's side
+ * rollers do, and the switch stays open; so does a contact slower than SCRUB_MS, such as
+ * a turn in place against a wall. A step that would push it further into a blocked
+ * tile or the outside at a steeper angle is not taken: the robot keeps its pose, the bump
+ * switch cuts the motors, and `bumped` is set for that step. Without the slide, the lateral
+ * drift that heading hold cannot see wedges a robot against a corridor wall for good.
  *
  * Gyro: rate = (1 + scale)·ω + bias + white noise, the bias a random walk. The robot's own
  * heading estimate integrates (rate − estimated bias) while it moves; while it is at rest
@@ -24,8 +29,9 @@
  * common practice for MEMS gyros), so heading error grows only while moving.
  *
  * Departures from a fuller model: no wheel inertia beyond the acceleration limit, no lateral
- * tyre slip, the bicycle's reference point (rear axle) is also the footprint's centre, and
- * a collision stops the body rather than letting it slide along the wall.
+ * tyre slip, the bicycle's reference point (rear axle) is also the footprint's centre, a
+ * slide keeps the heading (no torque from the wall), and GLANCE_RAD (30°) is our choice,
+ * not a measured figure.
  * References: CHECKS.md "Drive kinematics" (differential drive and kinematic bicycle, via
  * lib/kinematics); Gauss–Markov noise and gyro error terms as in Groves, "Principles of
  * GNSS, Inertial, and Multisensor Integrated Navigation Systems" (2nd ed.), ch. 4, from memory.
@@ -172,26 +178,66 @@ export function tileCentrePose(plan: Pick<Floorplan, "tileM">, row: number, col:
   return { x: (col + 0.5) * plan.tileM, y: (row + 0.5) * plan.tileM, theta: headingTheta(heading) };
 }
 
-/**
- * Depth in metres by which a disc of radius r at (x, y) overlaps blocked tiles or the outside
- * (≤ 0 when clear: minus the clearance to the nearest such tile within reach).
- */
-export function footprintPenetrationM(plan: Floorplan, x: number, y: number, radiusM: number): number {
+/** How far a wall is into the footprint and the unit normal pushing the footprint out of it (null when nothing blocked is near). */
+interface FootprintContact {
+  depthM: number;
+  normal: { x: number; y: number } | null;
+}
+
+function footprintContact(plan: Floorplan, x: number, y: number, radiusM: number): FootprintContact {
   const t = plan.tileM;
   const r0 = Math.floor((y - radiusM) / t);
   const r1 = Math.floor((y + radiusM) / t);
   const c0 = Math.floor((x - radiusM) / t);
   const c1 = Math.floor((x + radiusM) / t);
-  let depth = -radiusM;
+  const contact: FootprintContact = { depthM: -radiusM, normal: null };
   for (let r = r0; r <= r1; r++) {
     for (let c = c0; c <= c1; c++) {
       if (isFreeTile(plan, r, c)) continue;
       const nearX = Math.min(Math.max(x, c * t), (c + 1) * t);
       const nearY = Math.min(Math.max(y, r * t), (r + 1) * t);
-      depth = Math.max(depth, radiusM - Math.hypot(x - nearX, y - nearY));
+      const gap = Math.hypot(x - nearX, y - nearY);
+      if (radiusM - gap > contact.depthM) {
+        contact.depthM = radiusM - gap;
+        contact.normal = gap > 1e-12 ? { x: (x - nearX) / gap, y: (y - nearY) / gap } : null;
+      }
     }
   }
-  return depth;
+  return contact;
+}
+
+/**
+ * Depth in metres by which a disc of radius r at (x, y) overlaps blocked tiles or the outside
+ * (≤ 0 when clear: minus the clearance to the nearest such tile within reach).
+ */
+export function footprintPenetrationM(plan: Floorplan, x: number, y: number, radiusM: number): number {
+  return footprintContact(plan, x, y, radiusM).depthM;
+}
+
+/** Steepest angle between the motion and a wall at which the body slides along it rather than bumping. */
+const GLANCE_RAD = Math.PI / 6;
+/** Below this speed a contact is a scrub, not a bump: a robot turning in place against a wall (its centre wandering by wheel bias) rubs its bumper along it. */
+const SCRUB_MS = 0.01;
+
+/**
+ * Where a step from `from` towards `to` ends: `to` when clear; slid along a wall met at a
+ * glancing angle (or scrubbed along it), by pushing the pose back out along the contact
+ * normal until it is no deeper than before, which for a flat wall drops exactly the motion
+ * into it and also holds at a tile's corner; or null for a bump.
+ */
+function resolveContact(plan: Floorplan, radiusM: number, from: Pose, to: Pose, dtS: number): Pose | null {
+  const depthBefore = footprintPenetrationM(plan, from.x, from.y, radiusM);
+  const allowed = Math.max(depthBefore, 0);
+  const pushesIn = (depth: number) => depth > 1e-9 && depth > depthBefore + 1e-12;
+  const after = footprintContact(plan, to.x, to.y, radiusM);
+  if (!pushesIn(after.depthM)) return to;
+  const length = Math.hypot(to.x - from.x, to.y - from.y);
+  const n = after.normal;
+  if (!n || length === 0) return null;
+  const excess = after.depthM - allowed;
+  if (excess > length * Math.sin(GLANCE_RAD) && length >= SCRUB_MS * dtS) return null;
+  const slid = { x: to.x + excess * n.x, y: to.y + excess * n.y, theta: to.theta };
+  return pushesIn(footprintPenetrationM(plan, slid.x, slid.y, radiusM)) ? null : slid;
 }
 
 /** A robot at rest at the centre of a free tile; throws RangeError when the tile is blocked or outside (programmer error). */
@@ -281,10 +327,11 @@ export function stepRobot(state: SimState, command: DriveCommand, dtS: number, r
 
   const moved = integrateArc({ x: state.pose.x, y: -state.pose.y, theta: state.pose.theta }, v, omega, dtS);
   let pose: Pose = { x: moved.x, y: -moved.y, theta: moved.theta };
-  const radius = params.footprintRadiusM;
-  const depthAfter = footprintPenetrationM(plan, pose.x, pose.y, radius);
+  const resolved = resolveContact(plan, params.footprintRadiusM, state.pose, pose, dtS);
   let bumped = false;
-  if (depthAfter > 1e-9 && depthAfter > footprintPenetrationM(plan, state.pose.x, state.pose.y, radius) + 1e-12) {
+  if (resolved) {
+    pose = resolved;
+  } else {
     bumped = true;
     pose = state.pose;
     omega = 0;

@@ -18,7 +18,7 @@ import type { Floorplan } from "../lib/floorplan";
 import type { ServerMessage } from "../lib/protocol";
 import type { Sensor } from "../lib/sensing";
 import { HEADINGS, type Drive, type Heading } from "../lib/vocabulary";
-import { createRobotClient, type LinkLogger, type LinkState, type RobotClient, type SeqStore } from "../robots/link-client";
+import { createRobotClient, type LinkLogger, type LinkState, type RobotClient, type RobotClientOptions, type SeqStore } from "../robots/link-client";
 import { createActionController, defaultControlParams, type ActionController, type ControlParams } from "./action-controller";
 import {
   createSimState,
@@ -107,7 +107,7 @@ export interface SimRobotOptions {
   tickMs?: number;
   /** Wall-clock period of `sensed` while idle, ms (default 3000). */
   idleSenseMs?: number;
-  link?: { beatIntervalMs?: number; ackTimeoutMs?: number; reconnectDelayMs?: number; reconnectDelayMaxMs?: number };
+  link?: Pick<RobotClientOptions, "beatIntervalMs" | "ackTimeoutMs" | "reconnectDelayMs" | "reconnectDelayMaxMs" | "onAck">;
   onEvent?: (event: SimEvent) => void;
   logger?: LinkLogger;
 }

@@ -6,6 +6,7 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { useForm } from "react-hook-form";
 import { z } from "zod";
+import { signInErrorMessage } from "@/lib/crew/sign-in-errors";
 
 const SignInSchema = z.object({
   email: z.string().trim().email("Enter the e-mail address of your Tessera account."),
@@ -13,16 +14,17 @@ const SignInSchema = z.object({
 });
 type SignInValues = z.infer<typeof SignInSchema>;
 
-export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
+/** `initialError` is the `?error=` next-auth redirected here with, when the form was posted without script. */
+export function SignInForm({ callbackUrl, initialError }: { callbackUrl: string; initialError?: string }) {
   const router = useRouter();
-  const [failure, setFailure] = useState<string | null>(null);
+  const [failure, setFailure] = useState<string | null>(signInErrorMessage(initialError));
   const { register, handleSubmit, formState } = useForm<SignInValues>({ resolver: zodResolver(SignInSchema) });
 
   const onSubmit = handleSubmit(async (values) => {
     setFailure(null);
     const result = await signIn("credentials", { ...values, redirect: false });
     if (!result || result.error) {
-      setFailure("That e-mail and password do not match an active Tessera account.");
+      setFailure(signInErrorMessage(result?.error ?? "unknown"));
       return;
     }
     router.replace(callbackUrl);

@@ -20,7 +20,7 @@ import { RobotCard } from "./RobotCard";
 import { RobotTable } from "./RobotTable";
 import { ShortcutHelp } from "./ShortcutHelp";
 import { useFloorShortcuts } from "./shortcuts";
-import { ConnectionBanner, ConnectionPill, NoticeBar } from "./StatusBars";
+import { ConnectionBanner, ConnectionPill, NewerVersionBar, NoticeBar } from "./StatusBars";
 import { createFloorStore, FloorStoreContext, useFloor, type HeatMode } from "./store";
 import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
 
@@ -145,6 +145,7 @@ function Screen({ canCommand }: { canCommand: boolean }) {
       <div className="flex min-h-0 flex-col gap-2">
         <Toolbar />
         <ConnectionBanner />
+        <NewerVersionBar />
         <div className="min-h-0 flex-1 rounded-lg border border-ink-700 bg-ink-950 p-2">
           <FloorMap />
         </div>

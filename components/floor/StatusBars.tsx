@@ -31,6 +31,20 @@ export function ConnectionBanner() {
   );
 }
 
+/** Offers the floorplan's newer version; reloading is the operator's choice, never a surprise mid-command. */
+export function NewerVersionBar() {
+  const newer = useFloor((s) => s.newerVersion);
+  if (!newer) return null;
+  return (
+    <div role="status" data-testid="newer-version" className="flex flex-wrap items-center justify-between gap-2 rounded-md border border-tide/50 bg-tide/10 px-3 py-1.5 text-sm text-tide">
+      <span>Version {newer.version} of this floorplan was saved. Idle robots use it now; robots on a mission finish on the version they started on.</span>
+      <button type="button" onClick={() => window.location.reload()} className="rounded border border-tide/60 px-2 py-0.5 hover:bg-tide/20">
+        Show version {newer.version}
+      </button>
+    </div>
+  );
+}
+
 /** A small pill with the feed state, for the toolbar. */
 export function ConnectionPill() {
   const connection = useFloor((s) => s.connection);

@@ -7,7 +7,7 @@
 
 import { useEffect } from "react";
 import { io, type Socket } from "socket.io-client";
-import { AlertFrameSchema, OPS_EVENTS, RobotFrameSchema, type AlertFrame, type OpsAck, type RobotFrame } from "@/lib/protocol/ops-feed";
+import { AlertFrameSchema, FloorplanVersionFrameSchema, OPS_EVENTS, RobotFrameSchema, type AlertFrame, type OpsAck, type RobotFrame } from "@/lib/protocol/ops-feed";
 import { beliefFromWire } from "./belief";
 import type { FloorStore } from "./store";
 
@@ -85,6 +85,10 @@ export function useOpsSocket(store: FloorStore): void {
     });
     socket.on(OPS_EVENTS.removed, (raw: { robotId?: unknown }) => {
       if (typeof raw?.robotId === "string") s().removeRobot(raw.robotId);
+    });
+    socket.on(OPS_EVENTS.floorplan, (raw: unknown) => {
+      const parsed = FloorplanVersionFrameSchema.safeParse(raw);
+      if (parsed.success) s().noteVersion(parsed.data);
     });
     socket.io.on("reconnect_attempt", () => s().setConnection("reconnecting"));
 

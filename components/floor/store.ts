@@ -9,7 +9,7 @@
 import { createContext, useContext } from "react";
 import { useStore } from "zustand";
 import { createStore, type StoreApi } from "zustand/vanilla";
-import type { AlertFrame, FloorplanView, LiveFloorSnapshot, RobotFrame } from "@/lib/protocol/ops-feed";
+import type { AlertFrame, FloorplanVersionFrame, FloorplanView, LiveFloorSnapshot, RobotFrame } from "@/lib/protocol/ops-feed";
 import type { Heading } from "@/lib/vocabulary";
 import type { BeliefView } from "./belief";
 import type { TileCoord } from "./geometry";
@@ -52,6 +52,8 @@ export interface FloorState {
   connectionDetail: string | null;
   notice: Notice | null;
   helpOpen: boolean;
+  /** A version of this floorplan saved after the page was rendered. */
+  newerVersion: { versionId: number; version: number } | null;
 }
 
 export interface FloorActions {
@@ -73,6 +75,7 @@ export interface FloorActions {
   notify(tone: Notice["tone"], text: string): void;
   clearNotice(): void;
   setHelpOpen(open: boolean): void;
+  noteVersion(frame: FloorplanVersionFrame): void;
 }
 
 export type FloorStore = StoreApi<FloorState & FloorActions>;
@@ -117,6 +120,7 @@ export function createFloorStore(snapshot: LiveFloorSnapshot): FloorStore {
     connectionDetail: null,
     notice: null,
     helpOpen: false,
+    newerVersion: null,
 
     applySnapshot(next) {
       const fresh: Record<string, RobotFrame> = {};
@@ -210,6 +214,10 @@ export function createFloorStore(snapshot: LiveFloorSnapshot): FloorStore {
     },
     setHelpOpen(helpOpen) {
       set({ helpOpen });
+    },
+    noteVersion({ floorplanId, versionId, version }) {
+      const { floorplan } = get();
+      if (floorplanId === floorplan.id && version > floorplan.version) set({ newerVersion: { versionId, version } });
     },
   }));
 }

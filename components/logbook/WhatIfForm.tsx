@@ -4,6 +4,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useForm } from "react-hook-form";
 import { z } from "zod";
 import type { WhatIf } from "@/lib/protocol/what-if";
+import { SettingField } from "@/lib/roster/settings";
 
 /** The robot's models as the form starts from them (lib/motion MotionModel and lib/sensing SensorModel). */
 export interface ModelValues {
@@ -11,7 +12,9 @@ export interface ModelValues {
   sensor: { range: { sigmaM: number; lambdaShort: number; weights: { hit: number; short: number; max: number; rand: number } }; floor: { hit: number } };
 }
 
-const unit = z.number({ error: "a number" }).min(0, "0 or more").max(1, "1 at most");
+/** A form field: a number first (an empty input is NaN), then the bounds the settings declare. */
+const field = (bounds: z.ZodNumber) => z.number({ error: "must be a number" }).pipe(bounds);
+const unit = field(SettingField.weight);
 const FormSchema = z
   .object({
     forwardOk: unit,
@@ -20,14 +23,14 @@ const FormSchema = z
     turnOk: unit,
     turnNone: unit,
     turnReverse: unit,
-    mix: z.number({ error: "a number" }).min(0, "0 or more").max(0.5, "0.5 at most"),
-    sigmaM: z.number({ error: "a number" }).positive("above 0").max(5, "5 m at most"),
-    lambdaShort: z.number({ error: "a number" }).positive("above 0").max(100, "100 at most"),
+    mix: field(SettingField.mix),
+    sigmaM: field(SettingField.sigmaM),
+    lambdaShort: field(SettingField.lambdaShort),
     wHit: unit,
     wShort: unit,
     wMax: unit,
     wRand: unit,
-    floorHit: unit.refine((v) => v > 0, "above 0"),
+    floorHit: field(SettingField.floorHit),
   })
   .refine((v) => v.forwardOk + v.forwardStall + v.forwardOver > 0, { path: ["forwardOk"], message: "forward outcomes need a positive sum" })
   .refine((v) => v.turnOk + v.turnNone + v.turnReverse > 0, { path: ["turnOk"], message: "turn outcomes need a positive sum" })

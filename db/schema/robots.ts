@@ -13,6 +13,12 @@ export const robots = mysqlTable("robots", {
   simulated: boolean("simulated").notNull().default(false),
   floorplanId: bigint("floorplan_id", { mode: "number", unsigned: true }),
   retiredAt: timestamp("retired_at", { fsp: 3 }),
+  /**
+   * The newest ownership fence any node has written this robot's log under (several nodes
+   * sharing the fleet through Redis). A node's batch fails when this is newer than the fence
+   * of its own lease, so a node that lost a robot can no longer write for it.
+   */
+  fence: bigint("fence", { mode: "number", unsigned: true }).notNull().default(0),
   createdAt: timestamp("created_at", { fsp: 3 }).notNull().defaultNow(),
 });
 

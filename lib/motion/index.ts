@@ -1,3 +1,4 @@
 export * from "./model";
 export * from "./transitions";
 export * from "./update";
+export * from "./carried-out";

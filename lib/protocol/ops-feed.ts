@@ -110,7 +110,11 @@ export type OpsCommand<K extends OpsCommandName> = z.infer<(typeof OpsCommandSch
 export type OpsAck<T = unknown> = { ok: true; data: T } | { ok: false; error: { code: string; message: string; fields?: Record<string, string[]> } };
 
 /** Events the server emits on /ops. */
-export const OPS_EVENTS = { robot: "robot", belief: "belief", alert: "alert", removed: "robot:removed" } as const;
+export const OPS_EVENTS = { robot: "robot", belief: "belief", alert: "alert", removed: "robot:removed", floorplan: "floorplan:version" } as const;
+
+/** A new version of a floorplan was saved; pages showing an older one offer to show it. */
+export const FloorplanVersionFrameSchema = z.object({ floorplanId: z.number().int(), versionId: z.number().int(), version: z.number().int() });
+export type FloorplanVersionFrame = z.infer<typeof FloorplanVersionFrameSchema>;
 
 /** Quantises a tile marginal into a belief frame's bytes. */
 export function quantiseMarginal(marginal: ArrayLike<number>): { scale: number; data: Uint8Array } {

@@ -4,16 +4,16 @@
  * the tests.
  */
 import { z } from "zod";
+import { SettingField } from "../roster/settings";
 
-const weight = z.number().min(0).max(1);
-const probability = weight;
+const weight = SettingField.weight;
 
 /** Motion parameters a what-if may change; omitted fields keep the robot's own. */
 export const MotionOverrideSchema = z
   .object({
     forward: z.object({ ok: weight, stall: weight, over: weight }).partial().optional(),
     turn: z.object({ ok: weight, none: weight, reverse: weight }).partial().optional(),
-    mix: z.number().min(0).max(0.5).optional(),
+    mix: SettingField.mix.optional(),
   })
   .strict();
 
@@ -22,13 +22,13 @@ export const SensorOverrideSchema = z
   .object({
     range: z
       .object({
-        sigmaM: z.number().positive().max(5),
-        lambdaShort: z.number().positive().max(100),
+        sigmaM: SettingField.sigmaM,
+        lambdaShort: SettingField.lambdaShort,
         weights: z.object({ hit: weight, short: weight, max: weight, rand: weight }).partial(),
       })
       .partial()
       .optional(),
-    floor: z.object({ hit: probability.refine((v) => v > 0, "must be above 0") }).partial().optional(),
+    floor: z.object({ hit: SettingField.floorHit }).partial().optional(),
   })
   .strict();
 

@@ -19,7 +19,16 @@ import type { Drive } from "../vocabulary";
 /** How far the beam weights may stray from a sum of 1 (rounding in a form). */
 export const WEIGHT_SUM_TOLERANCE = 1e-6;
 
-const weight = z.number().min(0, "must be 0 or more").max(1, "must be at most 1");
+/** The bounds of each tuning field, declared once for the stored settings and the logbook's what-if overrides. */
+export const SettingField = {
+  weight: z.number().min(0, "must be 0 or more").max(1, "must be at most 1"),
+  mix: z.number().min(0, "must be 0 or more").lt(0.5, "must be under 0.5"),
+  sigmaM: z.number().positive("must be above 0").max(2, "must be at most 2 m"),
+  lambdaShort: z.number().positive("must be above 0").max(100, "must be at most 100 per metre"),
+  floorHit: z.number().gt(0, "must be above 0").max(1, "must be at most 1"),
+};
+
+const weight = SettingField.weight;
 
 function outcomeWeights<S extends Record<string, typeof weight>>(shape: S) {
   return z.object(shape).refine((w) => Object.values(w).some((v) => typeof v === "number" && v > 0), { message: "at least one outcome weight must be above 0" });
@@ -28,7 +37,7 @@ function outcomeWeights<S extends Record<string, typeof weight>>(shape: S) {
 export const MotionParamsSchema = z.object({
   forward: outcomeWeights({ ok: weight, stall: weight, over: weight }),
   turn: outcomeWeights({ ok: weight, none: weight, reverse: weight }),
-  mix: z.number().min(0, "must be 0 or more").lt(0.5, "must be under 0.5"),
+  mix: SettingField.mix,
   cost: z.object({
     forward: z.number().positive("must be above 0").max(100, "must be at most 100"),
     turn: z.number().positive("must be above 0").max(100, "must be at most 100"),
@@ -38,13 +47,13 @@ export const MotionParamsSchema = z.object({
 
 export const SensingParamsSchema = z.object({
   range: z.object({
-    sigmaM: z.number().positive("must be above 0").max(2, "must be at most 2 m"),
-    lambdaShort: z.number().positive("must be above 0").max(100, "must be at most 100 per metre"),
+    sigmaM: SettingField.sigmaM,
+    lambdaShort: SettingField.lambdaShort,
     weights: z
       .object({ hit: weight, short: weight, max: weight, rand: weight })
       .refine((w) => Math.abs(w.hit + w.short + w.max + w.rand - 1) <= WEIGHT_SUM_TOLERANCE, { message: "hit, short, max and rand must add up to 1" }),
   }),
-  floor: z.object({ hit: z.number().gt(0, "must be above 0").max(1, "must be at most 1") }),
+  floor: z.object({ hit: SettingField.floorHit }),
 });
 
 const gain = z.number().min(0, "must be 0 or more").max(1000, "must be at most 1000");

@@ -95,7 +95,7 @@ export class AlertMailer {
 /** Mails the fleet's alerts while attached; returns the detach function. */
 export function attachAlertMail(fleet: { on(e: "alert", l: (a: AlertEvent) => void): unknown; off(e: "alert", l: (a: AlertEvent) => void): unknown }, deps: AlertMailDeps): () => void {
   const mailer = new AlertMailer(deps);
-  const listener = (a: AlertEvent) => void mailer.handle(a);
+  const listener = (a: AlertEvent) => void mailer.handle(a).catch((err: unknown) => logger.error({ err, alert: a.id }, "alert e-mail failed"));
   fleet.on("alert", listener);
   return () => fleet.off("alert", listener);
 }

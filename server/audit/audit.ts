@@ -37,15 +37,20 @@ export async function listAudit(q: AuditQuery): Promise<{ items: AuditItem[]; to
   if (q.from) where.push(gte(audit.at, q.from));
   if (q.to) where.push(lte(audit.at, q.to));
   const condition = where.length ? and(...where) : undefined;
-  const [{ total }] = await db.select({ total: count() }).from(audit).where(condition);
-  const rows = await db
-    .select({ row: audit, userName: users.name })
-    .from(audit)
-    .leftJoin(users, eq(users.id, audit.userId))
-    .where(condition)
-    .orderBy(desc(audit.at), desc(audit.id))
-    .limit(q.limit)
-    .offset((q.page - 1) * q.limit);
+  // One repeatable-read transaction reads the count and the page from the same snapshot,
+  // so actions recorded in between cannot make the two disagree.
+  const { total, rows } = await db.transaction(async (tx) => {
+    const [{ total }] = await tx.select({ total: count() }).from(audit).where(condition);
+    const rows = await tx
+      .select({ row: audit, userName: users.name })
+      .from(audit)
+      .leftJoin(users, eq(users.id, audit.userId))
+      .where(condition)
+      .orderBy(desc(audit.at), desc(audit.id))
+      .limit(q.limit)
+      .offset((q.page - 1) * q.limit);
+    return { total, rows };
+  }, { isolationLevel: "repeatable read", accessMode: "read only" });
   return {
     total,
     items: rows.map(({ row, userName }) => ({

@@ -11,6 +11,8 @@ import { ROLES } from "../../lib/vocabulary";
 import { config } from "../config";
 import { appDb } from "../db";
 import { logger } from "../logger";
+import { SIGN_IN_RATE_LIMITED } from "../../lib/crew/sign-in-errors";
+import { clientAddress, createSignInThrottle } from "./sign-in-limit";
 
 const CredentialsSchema = z.object({
   email: z.string().trim().toLowerCase().email(),
@@ -40,6 +42,26 @@ export async function verifyCredentials(raw: unknown): Promise<SessionUser | nul
   return { id: String(user.id), email: user.email, name: user.name, role: user.role };
 }
 
+const throttle = createSignInThrottle();
+
+/**
+ * The credentials provider's check behind the throttle: refuses with SIGN_IN_RATE_LIMITED while
+ * the account or the address is limited, and counts each failure (null) against both.
+ */
+export async function authorizeSignIn(raw: unknown, headers: Record<string, string | string[] | undefined>): Promise<SessionUser | null> {
+  const email = CredentialsSchema.shape.email.safeParse((raw as { email?: unknown } | null)?.email);
+  const account = email.success ? email.data : null;
+  const address = clientAddress(headers, config().TRUSTED_PROXY);
+  if (throttle.limited(account, address)) {
+    logger.warn({ email: account, address }, "sign-in refused: too many failed attempts");
+    throw new Error(SIGN_IN_RATE_LIMITED);
+  }
+  const user = await verifyCredentials(raw);
+  if (user) return user;
+  throttle.failed(account, address);
+  return null;
+}
+
 /**
  * The session's user as the database has it now: null once the account is deactivated or
  * gone, and the current role and name, so an admin's change applies on the user's next request.
@@ -54,12 +76,13 @@ export function authOptions(): NextAuthOptions {
   return {
     secret: config().NEXTAUTH_SECRET,
     session: { strategy: "jwt", maxAge: 12 * 60 * 60 },
-    pages: { signIn: "/sign-in" },
+    // Errors too go to the sign-in page, which reads `?error=` and says what went wrong.
+    pages: { signIn: "/sign-in", error: "/sign-in" },
     providers: [
       CredentialsProvider({
         name: "Tessera account",
         credentials: { email: { label: "E-mail", type: "email" }, password: { label: "Password", type: "password" } },
-        authorize: (credentials) => verifyCredentials(credentials),
+        authorize: (credentials, req) => authorizeSignIn(credentials, req.headers ?? {}),
       }),
     ],
     callbacks: {

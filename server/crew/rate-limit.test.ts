@@ -12,3 +12,19 @@ describe("createRateLimiter", () => {
     expect(limiter.take("a@tessera.test", 1100)).toBe(true);
   });
 });
+
+describe("blocked", () => {
+  it("reports a used-up allowance without counting, and clears once the window passes", () => {
+    const limiter = createRateLimiter(2, 1000);
+    expect(limiter.blocked("a", 0)).toBe(false);
+    expect(limiter.blocked("a", 0)).toBe(false);
+    limiter.take("a", 0);
+    expect(limiter.blocked("a", 10)).toBe(false);
+    limiter.take("a", 20);
+    expect(limiter.blocked("a", 30)).toBe(true);
+    expect(limiter.blocked("b", 30)).toBe(false);
+    expect(limiter.blocked("a", 1000)).toBe(false);
+    expect(limiter.blocked("a", 1020)).toBe(false);
+    expect(limiter.take("a", 1020)).toBe(true);
+  });
+});

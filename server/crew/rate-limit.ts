@@ -2,13 +2,16 @@
 export interface RateLimiter {
   /** Counts one attempt for `key`; false when the key already used its allowance in the window. */
   take(key: string, now?: number): boolean;
+  /** Whether `key` has used its allowance in the window, without counting an attempt. */
+  blocked(key: string, now?: number): boolean;
 }
 
 export function createRateLimiter(max: number, windowMs: number): RateLimiter {
   const hits = new Map<string, number[]>();
+  const recentOf = (key: string, now: number) => (hits.get(key) ?? []).filter((t) => now - t < windowMs);
   return {
     take(key, now = Date.now()) {
-      const recent = (hits.get(key) ?? []).filter((t) => now - t < windowMs);
+      const recent = recentOf(key, now);
       if (recent.length >= max) {
         hits.set(key, recent);
         return false;
@@ -18,6 +21,9 @@ export function createRateLimiter(max: number, windowMs: number): RateLimiter {
       // Keys of addresses nobody asks for again must not pile up forever.
       if (hits.size > 10_000) for (const [k, times] of hits) if (times.every((t) => now - t >= windowMs)) hits.delete(k);
       return true;
+    },
+    blocked(key, now = Date.now()) {
+      return recentOf(key, now).length >= max;
     },
   };
 }

@@ -13,6 +13,7 @@ import { beliefs, events, missions } from "../../db/schema";
 import { TesseraError } from "../errors";
 import type { Fleet } from "./fleet";
 import { applyToFilter, FILTER_EVENT_KINDS, type FilterTarget } from "./filter-events";
+import { missionRobot } from "./mission-robot";
 import { MODELS_EVENT, modelsAt, sameModels, type Models } from "./models-at";
 
 /** The robot's models with a what-if's fields laid over them. */
@@ -36,11 +37,9 @@ function float64(buffer: Buffer): Float64Array {
   return new Float64Array(buffer.buffer.slice(buffer.byteOffset, buffer.byteOffset + buffer.byteLength));
 }
 
-/** The robot's current motion and sensor models, as the live filter uses them. */
-export function robotModels(fleet: Fleet, robotId: string): { motion: MotionModel; sensor: SensorModel } {
-  const runtime = fleet.robots.get(robotId);
-  if (!runtime) throw new TesseraError("not_found", "certainty", `Robot ${robotId} is not on the roster.`);
-  return { motion: runtime.motion, sensor: runtime.sensorModel };
+/** The robot's current motion and sensor models, as its filter uses them (its roster row's once retired). */
+export async function robotModels(fleet: Fleet, robotId: string): Promise<Models> {
+  return (await missionRobot(fleet, robotId, "certainty")).current;
 }
 
 /** The certainty after each step of mission `missionId`, with the robot's models or a what-if. */
@@ -50,19 +49,17 @@ export async function certaintyCurve(fleet: Fleet, missionId: number, whatIf?: W
   if (!mission) throw new TesseraError("not_found", "certainty", `There is no mission ${missionId}.`);
   const start = (await db.select().from(beliefs).where(eq(beliefs.missionId, missionId)).orderBy(asc(beliefs.id)).limit(1))[0];
   if (!start) throw new TesseraError("unprocessable", "certainty", `Mission ${missionId} has no starting belief to replay from.`);
-  const runtime = fleet.robots.get(mission.robotId);
-  if (!runtime) throw new TesseraError("not_found", "certainty", `Robot ${mission.robotId} of mission ${missionId} is not on the roster.`);
+  const { current: own, sensors, runtime } = await missionRobot(fleet, mission.robotId, "certainty");
 
-  const own = { motion: runtime.motion, sensor: runtime.sensorModel };
   // The live curve follows the models the robot ran with, retunings included; a what-if
   // lays its parameters over the models at the start and keeps them throughout.
   const atStart = await modelsAt(db, mission.robotId, start.eventId, own);
   const plan = await fleet.planOf(mission.versionId);
-  const sameVersion = runtime.versionId === mission.versionId;
   const build = (models: Models) => {
     // The transition table depends on the motion model, the range table only on the plan and sensors.
-    const shared = sameVersion ? { ranges: runtime.filter.ranges, ...(sameModels(models, own) ? { table: runtime.filter.table } : {}) } : {};
-    return createFilter(plan, models.motion, runtime.sensors, models.sensor, shared);
+    const live = runtime && runtime.versionId === mission.versionId;
+    const shared = live ? { ranges: runtime.filter.ranges, ...(sameModels(models, own) ? { table: runtime.filter.table } : {}) } : {};
+    return createFilter(plan, models.motion, sensors, models.sensor, shared);
   };
   let filter = build(whatIf ? withOverrides(atStart.motion, atStart.sensor, whatIf) : atStart);
   filter.reset(float64(start.belief));

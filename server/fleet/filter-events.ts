@@ -1,6 +1,7 @@
 /** Stored events that change a belief (moved, sensed, relocate), applied the same way live, on rebuild and in replay. */
 import { poseBelief } from "../../lib/belief";
 import type { Floorplan } from "../../lib/floorplan";
+import { actionCarriedOut, type Odometry } from "../../lib/motion";
 import type { SensorReading } from "../../lib/sensing";
 import type { Action, Heading } from "../../lib/vocabulary";
 
@@ -15,9 +16,9 @@ export interface FilterTarget {
   reset(belief?: ArrayLike<number>): void;
 }
 
-/** Applies one stored filter event to a belief. */
+/** Applies one filter event to a belief: live as it arrives, and stored, on rebuild and in replay. */
 export function applyToFilter(target: FilterTarget, kind: string, payload: Record<string, unknown>): void {
-  if (kind === "moved") target.move(payload.action as Action);
+  if (kind === "moved") target.move(actionCarriedOut(payload.action as Action, payload.odometry as Odometry | undefined, target.plan.tileM));
   else if (kind === "sensed") target.sense(payload.readings as SensorReading[]);
   else if (kind === "relocate") {
     const heading = typeof payload.heading === "string" ? (payload.heading as Heading) : undefined;

@@ -4,14 +4,15 @@
  * dashboards as events. One instance per process, owning the robots connected to it.
  */
 import { EventEmitter } from "node:events";
-import { and, desc, eq, gt, inArray, isNull, max, ne } from "drizzle-orm";
+import { and, desc, eq, gt, inArray, isNull, max, ne, sql } from "drizzle-orm";
 import type { Socket } from "socket.io";
 import type { Db } from "../../db/client";
 import { planFromVersion, defaultFloorplanId, latestVersion, versionById } from "../../db/queries/floorplans";
 import { alerts, audit, beliefs, events, missions, robots, type Robot } from "../../db/schema";
 import { tileMarginal } from "../../lib/belief";
 import { isFreeTile, stateIndex, type Floorplan, type Tile } from "../../lib/floorplan";
-import { chooseAction } from "../../lib/planning";
+import { actionCarriedOut } from "../../lib/motion";
+import { chooseAction, dualModeState } from "../../lib/planning";
 import { resolveRobotSettings, type RobotSettings } from "../../lib/roster";
 import {
   MAX_MESSAGE_BYTES,
@@ -24,6 +25,7 @@ import {
   type Sensed,
   type SimFaultMessage,
   type Truth,
+  type FloorplanVersionFrame,
   type RobotFrame,
   type ServerMessage,
 } from "../../lib/protocol";
@@ -38,7 +40,8 @@ import { MODELS_EVENT } from "./models-at";
 import { applyToFilter, FILTER_EVENT_KINDS } from "./filter-events";
 import { missionRef, robotFrame, robotState } from "./frames";
 import { RobotRuntime, type MissionRuntime } from "./robot-runtime";
-import { trafficBlocker } from "./traffic";
+import { StorageWatch } from "./storage-watch";
+import { peerOfRuntime, trafficBlocker, type TrafficPeer } from "./traffic";
 import { FleetWriter } from "./writer";
 
 /** Who asked for a command: a signed-in user, or the server itself (demo scheduler). */
@@ -64,14 +67,19 @@ export interface FleetEvents {
   alert: [{ id: number; robotId: string | null; kind: AlertKind; message: string; createdAt: number; floorplanId: number | null }];
   /** A robot left the live floor (retired). */
   removed: [{ robotId: string; floorplanId: number | null }];
+  /** A new version of a floorplan was saved. */
+  floorplan: [FloorplanVersionFrame];
 }
 
 export class Fleet extends EventEmitter<FleetEvents> {
   readonly robots = new Map<string, RobotRuntime>();
   readonly writer: FleetWriter;
   readonly policies: PolicyCache;
+  readonly storage: StorageWatch;
   private readonly plans = new Map<number, Floorplan>();
   private watchdog: NodeJS.Timeout | undefined;
+  /** With several nodes: the robots the other nodes serve, for the traffic rule (server/cluster/traffic-peers.ts). */
+  remotePeers: (() => Iterable<TrafficPeer>) | undefined;
 
   constructor(
     readonly db: Db,
@@ -80,6 +88,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
     super();
     this.writer = new FleetWriter(db, config.writeTickMs);
     this.policies = new PolicyCache(db, config.workerTiles);
+    this.storage = new StorageWatch({ probe: () => this.db.execute(sql`SELECT 1`), restore: () => this.storageBack() });
   }
 
   /** Loads every robot of the roster and rebuilds its belief and mission from the database. */
@@ -93,6 +102,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
 
   async stop(): Promise<void> {
     if (this.watchdog) clearInterval(this.watchdog);
+    this.storage.stop();
     await Promise.all([...this.robots.values()].map((r) => r.chain));
     await this.writer.flush();
   }
@@ -141,6 +151,15 @@ export class Fleet extends EventEmitter<FleetEvents> {
       .from(events)
       .where(and(eq(events.robotId, row.id), eq(events.source, "robot"), ne(events.kind, "hello")));
     runtime.orderSeq = Number(lastOrdered ?? 0);
+    const lastTune = (
+      await this.db
+        .select({ payload: events.payload })
+        .from(events)
+        .where(and(eq(events.robotId, row.id), eq(events.source, "server"), eq(events.kind, "tune")))
+        .orderBy(desc(events.id))
+        .limit(1)
+    )[0];
+    runtime.tuned = (lastTune?.payload as { pid?: RobotRuntime["tuned"] } | undefined)?.pid ?? null;
     if (active) {
       const policy = await this.policies.get({ versionId, plan, goal: { row: active.goalRow, col: active.goalCol }, model: runtime.motion });
       runtime.mission = newMission(active.id, { row: active.goalRow, col: active.goalCol }, versionId, policy, active.steps, active.holds);
@@ -153,9 +172,9 @@ export class Fleet extends EventEmitter<FleetEvents> {
   }
 
   /** After a failed write the in-memory state ran ahead of the log: rebuild it from what was stored. */
-  private async recover(stale: RobotRuntime): Promise<void> {
+  private async recover(stale: RobotRuntime): Promise<RobotRuntime | null> {
     const row = (await this.db.select().from(robots).where(eq(robots.id, stale.id)).limit(1))[0];
-    if (!row) return;
+    if (!row) return null;
     const fresh = await this.load(row);
     fresh.socket = stale.socket;
     fresh.online = stale.online;
@@ -163,7 +182,89 @@ export class Fleet extends EventEmitter<FleetEvents> {
     fresh.battery = stale.battery;
     fresh.hold = stale.hold;
     fresh.certaintyHistory = stale.certaintyHistory;
+    fresh.lastOutcome = stale.lastOutcome;
+    fresh.lastTruth = stale.lastTruth;
     this.publish(fresh);
+    return fresh;
+  }
+
+  /**
+   * Any failed write: when storage is down the robot is held until it returns (and rebuilt
+   * then, with every other robot); otherwise it is rebuilt now. Never rejects.
+   */
+  private async failed(runtime: RobotRuntime, err: unknown, what: string): Promise<void> {
+    if (await this.storage.check(err)) {
+      this.holdUnstored(runtime);
+      return;
+    }
+    logger.error({ err, robot: runtime.id, what }, "write failed; rebuilding the robot from the database");
+    await this.recover(runtime).catch((e: unknown) => logger.error({ err: e, robot: runtime.id }, "robot rebuild failed"));
+  }
+
+  /** A message while storage is down: refused, never applied nor queued; the robot resends it later. */
+  private refuseUnstored(runtime: RobotRuntime, raw: unknown): Ack {
+    // The link is alive, only storage is not: the heartbeat watchdog must not call the robot offline.
+    runtime.lastMessageAt = Date.now();
+    this.holdUnstored(runtime);
+    return refuse(seqOf(raw), "internal", "The server cannot store messages right now; send it again.");
+  }
+
+  /**
+   * Holds a robot whose messages cannot be stored, once per outage. Nothing is written
+   * now; the hold's log entry and alert are written by `storageBack`.
+   */
+  private holdUnstored(runtime: RobotRuntime): void {
+    if (this.storage.held.has(runtime.id)) return;
+    this.storage.held.set(runtime.id, { since: Date.now(), previous: runtime.hold });
+    runtime.hold = "fault";
+    runtime.socket?.emit("hold", { reason: "fault", ...(runtime.mission ? { mission: runtime.mission.id } : {}) });
+    logger.warn({ robot: runtime.id }, "robot held: its messages cannot be stored");
+    this.publish(runtime);
+  }
+
+  /**
+   * Storage answers again. Every robot is rebuilt from the database (any of them may have
+   * run ahead of a write that failed). The holds of the outage go into the log after the
+   * last event stored before it, which is where they happened, and are then lifted: the
+   * robots' resent messages follow and the missions go on. Throws when storage fails
+   * again before the log is written; the watch then retries from the start.
+   */
+  private async storageBack(): Promise<void> {
+    for (const stale of [...this.robots.values()]) {
+      await stale.chain;
+      if (this.robots.get(stale.id) === stale) await this.recover(stale);
+    }
+    const lifted: RobotRuntime[] = [];
+    for (const [robotId, hold] of this.storage.held) {
+      const runtime = this.robots.get(robotId);
+      if (!runtime) continue;
+      const missionId = runtime.mission?.id ?? null;
+      const keep = hold.previous === "operator" || hold.previous === "low_certainty" ? hold.previous : null;
+      const heldFor = Math.round((Date.now() - hold.since) / 1000);
+      const entry = { robotId, seq: null, missionId, source: "server" as const, robotAt: null };
+      this.writer.event({ ...entry, kind: "hold", payload: { reason: "fault", why: "storage unavailable", ...(missionId ? { mission: missionId } : {}) }, receivedAt: new Date(hold.since) });
+      if (!keep) this.writer.event({ ...entry, kind: "release", payload: { reason: "storage back", heldS: heldFor }, receivedAt: new Date() });
+      if (runtime.mission) {
+        runtime.mission.holds += 1;
+        this.writer.mission(runtime.mission.id, { holds: runtime.mission.holds });
+      }
+      runtime.hold = keep;
+      if (!keep) lifted.push(runtime);
+    }
+    await this.writer.commit();
+    const now = Date.now();
+    for (const runtime of lifted) {
+      runtime.socket?.emit("release", runtime.mission ? { mission: runtime.mission.id } : {});
+      if (runtime.socket?.connected) runtime.lastMessageAt = now;
+      // As after a reconnect: the robot's resent messages come first, then the mission is resumed.
+      runtime.resumeAt = now + 300;
+      this.publish(runtime);
+      this.publishBelief(runtime);
+    }
+    for (const [robotId, hold] of this.storage.held) {
+      const runtime = this.robots.get(robotId);
+      if (runtime) void this.alert(runtime, "fault", `${runtime.name} held for ${Math.round((now - hold.since) / 1000)} s: the database was unavailable, so its messages could not be stored`);
+    }
   }
 
   private runtime(robotId: string): RobotRuntime {
@@ -206,12 +307,15 @@ export class Fleet extends EventEmitter<FleetEvents> {
       ack(refuse(null, "internal", `robot ${robotId} is not loaded`));
       return;
     }
+    if (this.storage.down) {
+      ack(this.refuseUnstored(runtime, raw));
+      return;
+    }
     runtime.chain = runtime.chain
-      .then(() => this.apply(runtime, event, raw))
+      .then(() => (this.storage.down ? this.refuseUnstored(runtime, raw) : this.apply(runtime, event, raw)))
       .then(ack, async (err: unknown) => {
-        logger.error({ err, robot: robotId, event }, "robot message failed; rebuilding the robot from the database");
         ack(refuse(seqOf(raw), "internal", "The server could not store this message; send it again."));
-        await this.recover(runtime).catch((e: unknown) => logger.error({ err: e, robot: robotId }, "robot rebuild failed"));
+        await this.failed(runtime, err, event);
       });
   }
 
@@ -259,6 +363,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
         .limit(1);
       if (name === "hello") {
         this.comeOnline(runtime);
+        this.retune(runtime);
         const state = { lastSeq: runtime.lastSeq, state: robotState(runtime), mission: missionRef(runtime) };
         if (seen.length) return { ok: true, seq: msg.seq, dup: true, ...state };
         return { ...refuse(msg.seq, "out_of_order", `seq ${msg.seq} is below the last applied seq ${runtime.lastSeq}; continue from ${runtime.lastSeq + 1}`), lastSeq: runtime.lastSeq, state: state.state };
@@ -297,9 +402,14 @@ export class Fleet extends EventEmitter<FleetEvents> {
         runtime.drive = hello.drive;
         if (JSON.stringify(hello.sensors) !== JSON.stringify(runtime.sensors)) {
           runtime.setSensors(hello.sensors);
-          void this.db.update(robots).set({ sensors: hello.sensors }).where(eq(robots.id, runtime.id));
+          this.db
+            .update(robots)
+            .set({ sensors: hello.sensors })
+            .where(eq(robots.id, runtime.id))
+            .catch((err: unknown) => logger.error({ err, robot: runtime.id }, "the robot's new sensor set could not be stored"));
         }
         this.comeOnline(runtime);
+        after.push(() => this.retune(runtime));
         break;
       }
       case "beat": {
@@ -314,9 +424,20 @@ export class Fleet extends EventEmitter<FleetEvents> {
       }
       case "moved": {
         const moved = msg as Moved;
-        runtime.move(moved.action);
+        applyToFilter(runtime, "moved", moved);
+        if (runtime.mission) {
+          const didNotMove = moved.action !== "stay" && actionCarriedOut(moved.action, moved.odometry, runtime.plan.tileM) === "stay";
+          runtime.mission.stuckMoves = didNotMove ? runtime.mission.stuckMoves + 1 : 0;
+          if (runtime.mission.awaiting !== "moved") {
+            // A move whose `next` this server never stored: the node that sent it died before
+            // its batch was committed, so the rebuilt mission is a step short. Count the step,
+            // or the next one would reuse a number the robot has carried out and so ignores.
+            runtime.mission.step += 1;
+            this.writer.mission(runtime.mission.id, { steps: runtime.mission.step });
+          }
+          runtime.mission.awaiting = "sensed";
+        }
         runtime.lastFilterEvent = queued;
-        if (runtime.mission) runtime.mission.awaiting = "sensed";
         break;
       }
       case "sensed": {
@@ -328,12 +449,17 @@ export class Fleet extends EventEmitter<FleetEvents> {
         const c = runtime.certainty();
         runtime.recordCertainty(c.tileMass);
         if (runtime.mission) {
-          runtime.mission.claim = null;
           runtime.mission.minCertainty = Math.min(runtime.mission.minCertainty, c.tileMass);
           this.writer.mission(runtime.mission.id, { minCertainty: c.tileMass });
-          const step = runtime.mission.awaiting === "sensed";
-          runtime.mission.awaiting = null;
-          after.push(() => void this.advance(runtime, step));
+          // A reading that is not the answer to a move (an idle one that crossed the `next` on
+          // the wire) is fused, but the step stays outstanding: answering it with another
+          // `next` would leave the robot one action behind every later choice.
+          if (runtime.mission.awaiting !== "moved") {
+            runtime.mission.claim = null;
+            const step = runtime.mission.awaiting === "sensed";
+            runtime.mission.awaiting = null;
+            after.push(() => void this.advance(runtime, step).catch((err: unknown) => this.failed(runtime, err, "advance")));
+          }
         }
         if (runtime.sinceSnapshot >= this.config.snapshotEvery) this.snapshot(runtime);
         after.push(() => this.publishBelief(runtime));
@@ -364,6 +490,11 @@ export class Fleet extends EventEmitter<FleetEvents> {
       this.logCommand(runtime, "server", "release", { reason: "back online" });
       if (runtime.socket) runtime.socket.emit("release", runtime.mission ? { mission: runtime.mission.id } : {});
     }
+  }
+
+  /** After a hello: the gains last pushed, which a rebooted robot has forgotten. */
+  private retune(runtime: RobotRuntime): void {
+    if (runtime.tuned) this.command(runtime, "tune", { pid: runtime.tuned });
   }
 
   private snapshot(runtime: RobotRuntime): void {
@@ -405,6 +536,13 @@ export class Fleet extends EventEmitter<FleetEvents> {
       await this.finish(runtime, "failed");
       return;
     }
+    if (stepDone && !runtime.hold && mission.stuckMoves >= this.config.stuckAfterMoves) {
+      // A robot pushing against something the map does not show (a pallet, a person's foot)
+      // must not be sent at it again and again; someone has to look before it goes on.
+      this.placeHold(runtime, "fault", `its last ${mission.stuckMoves} moves did not move it (bumped or blocked); check the way before releasing it`);
+      mission.stuckMoves = 0;
+      return;
+    }
     if (stepDone) {
       if (c.tileMass >= this.config.releaseAbove) mission.armed = true;
       mission.lowSteps = mission.armed && c.tileMass < this.config.holdBelow ? mission.lowSteps + 1 : 0;
@@ -425,13 +563,17 @@ export class Fleet extends EventEmitter<FleetEvents> {
   private sendNext(runtime: RobotRuntime): void {
     const mission = runtime.mission;
     if (!mission || mission.awaiting) return;
+    if (mission.detourAround && !trafficBlocker(this.peers(), runtime.id, runtime.versionId, mission.detourAround, this.config.trafficMass)) {
+      mission.detour = null;
+      mission.detourAround = null;
+    }
     const policy = mission.detour ?? mission.policy;
     const c = runtime.certainty();
-    const here = stateIndex(runtime.plan, c.row, c.col, c.heading);
-    // Dual-mode control (Cassandra, Kaelbling and Kurien, 1996; from memory): QMDP never
-    // moves just to learn, so while the belief is spread the robot follows the policy of its
-    // most likely state, whose moves past walls and marks sharpen the belief.
-    const unsure = c.tileMass < this.config.releaseAbove && policy.action[here] !== NO_ACTION;
+    // QMDP never moves just to learn, so while the belief is spread the robot acts as one
+    // likely state (dual-mode control, lib/planning/dual-mode.ts).
+    const guide = c.tileMass < this.config.releaseAbove ? dualModeState(runtime.plan, runtime.filter.belief, mission.goal) : -1;
+    const unsure = guide >= 0 && policy.action[guide] !== NO_ACTION;
+    const here = unsure ? guide : stateIndex(runtime.plan, c.row, c.col, c.heading);
     let action = unsure ? ACTIONS[policy.action[here]] : chooseAction(runtime.plan, policy, runtime.filter.belief, { table: runtime.filter.table });
     // Staying put repeats the same readings; after a few, turn in place to sense anew.
     mission.stays = action === "stay" ? mission.stays + 1 : 0;
@@ -440,9 +582,10 @@ export class Fleet extends EventEmitter<FleetEvents> {
       mission.stays = 0;
     }
     const target = likelyTile(runtime.plan, runtime.filter.table, here, ACTIONS.indexOf(action));
-    const moves = target.row !== c.row || target.col !== c.col;
+    const fromTile = here >> 2;
+    const moves = target.row !== Math.floor(fromTile / runtime.plan.cols) || target.col !== fromTile % runtime.plan.cols;
     if (moves) {
-      const blocker = trafficBlocker(this.robots.values(), runtime, target, this.config.trafficMass);
+      const blocker = trafficBlocker(this.peers(), runtime.id, runtime.versionId, target, this.config.trafficMass);
       if (blocker) {
         this.waitForTraffic(runtime, blocker, target);
         return;
@@ -462,7 +605,13 @@ export class Fleet extends EventEmitter<FleetEvents> {
     this.publish(runtime);
   }
 
-  private waitForTraffic(runtime: RobotRuntime, blocker: RobotRuntime, tile: Tile): void {
+  /** This process's robots, then those other nodes serve (a robot served here is never also a remote peer). */
+  private *peers(): Iterable<TrafficPeer> {
+    for (const r of this.robots.values()) yield peerOfRuntime(r);
+    for (const p of this.remotePeers?.() ?? []) if (!this.robots.has(p.id)) yield p;
+  }
+
+  private waitForTraffic(runtime: RobotRuntime, blocker: TrafficPeer, tile: Tile): void {
     const mission = runtime.mission as MissionRuntime;
     const now = Date.now();
     if (runtime.hold !== "traffic") {
@@ -478,16 +627,27 @@ export class Fleet extends EventEmitter<FleetEvents> {
     if (mission.trafficSince === null || now - mission.trafficSince < this.config.trafficReplanMs) return;
     // Two robots waiting on each other would both detour the same way and meet again:
     // only the one with the larger id gives way; a robot blocked by a parked one always does.
-    const mutual = blocker.hold === "traffic" && blocker.mission !== null;
+    const mutual = blocker.hold === "traffic" && blocker.hasMission;
     if (mutual && runtime.id < blocker.id) return;
     const waitedS = Math.round((now - mission.trafficSince) / 1000);
+    if (tile.row === mission.goal.row && tile.col === mission.goal.col) {
+      // No way round reaches a goal another robot stands on: say so once, and wait for it.
+      mission.trafficSince = null;
+      void this.alert(runtime, "traffic", `${runtime.name} waited ${waitedS} s for ${blocker.name}, which stands on its goal (${tile.row}, ${tile.col})`);
+      return;
+    }
     mission.trafficSince = now;
     const plan: Floorplan = { ...runtime.plan, blocked: Uint8Array.from(runtime.plan.blocked) };
     plan.blocked[tile.row * plan.cols + tile.col] = 1;
     void this.alert(runtime, "traffic", `${runtime.name} waited ${waitedS} s for ${blocker.name}; re-planning around tile (${tile.row}, ${tile.col})`);
-    void this.policies.solveTransient(plan, mission.goal, runtime.motion).then((detour) => {
-      if (runtime.mission === mission) mission.detour = detour;
-    });
+    this.policies.solveTransient(plan, mission.goal, runtime.motion).then(
+      (detour) => {
+        if (runtime.mission !== mission) return;
+        mission.detour = detour;
+        mission.detourAround = tile;
+      },
+      (err: unknown) => logger.error({ err, robot: runtime.id }, "detour around traffic could not be planned"),
+    );
   }
 
   private placeHold(runtime: RobotRuntime, reason: HoldReason, why: string): void {
@@ -555,6 +715,8 @@ export class Fleet extends EventEmitter<FleetEvents> {
       this.publishBelief(runtime);
       this.publish(runtime);
     }
+    const latest = await latestVersion(this.db, floorplanId);
+    if (latest) this.emit("floorplan", { floorplanId, versionId: latest.id, version: latest.version });
     return moved;
   }
 
@@ -718,7 +880,8 @@ export class Fleet extends EventEmitter<FleetEvents> {
   tune(robotId: string, gains: RobotSettings["gains"]): boolean {
     const runtime = this.runtime(robotId);
     if (!runtime.socket?.connected) return false;
-    this.command(runtime, "tune", { pid: { kp: gains.kp, ki: gains.ki, kd: gains.kd } });
+    runtime.tuned = { kp: gains.kp, ki: gains.ki, kd: gains.kd };
+    this.command(runtime, "tune", { pid: runtime.tuned });
     return true;
   }
 
@@ -738,6 +901,8 @@ export class Fleet extends EventEmitter<FleetEvents> {
   // ——— timers ———
 
   private tick(): void {
+    // Nothing timed may write while storage is down; the watchdog resumes once robots are rebuilt.
+    if (this.storage.down) return;
     const now = Date.now();
     for (const runtime of this.robots.values()) {
       if (runtime.online && runtime.lastMessageAt !== null && now - runtime.lastMessageAt > this.config.heartbeatTimeoutMs) {
@@ -758,11 +923,11 @@ export class Fleet extends EventEmitter<FleetEvents> {
         if (mission.awaiting === "moved" && mission.lastAction && !runtime.hold) {
           runtime.socket?.emit("next", { mission: mission.id, step: mission.step, action: mission.lastAction });
         } else if (!mission.awaiting) {
-          runtime.chain = runtime.chain.then(() => this.advance(runtime, false));
+          runtime.chain = runtime.chain.then(() => this.advance(runtime, false)).catch((err: unknown) => this.failed(runtime, err, "resume"));
         }
       }
       if (runtime.hold === "traffic" && !mission.awaiting) {
-        runtime.chain = runtime.chain.then(() => this.sendNext(runtime));
+        runtime.chain = runtime.chain.then(() => this.sendNext(runtime)).catch((err: unknown) => this.failed(runtime, err, "traffic"));
       }
     }
   }
@@ -798,5 +963,5 @@ function seqOf(raw: unknown): number | null {
 }
 
 function newMission(id: number, goal: Tile, versionId: number, policy: MissionRuntime["policy"], step: number, holds: number): MissionRuntime {
-  return { id, goal, versionId, step, awaiting: null, lastAction: null, policy, detour: null, armed: false, lowSteps: 0, stays: 0, claim: null, trafficSince: null, holds, minCertainty: 1 };
+  return { id, goal, versionId, step, awaiting: null, lastAction: null, policy, detour: null, detourAround: null, armed: false, lowSteps: 0, stays: 0, stuckMoves: 0, claim: null, trafficSince: null, holds, minCertainty: 1 };
 }

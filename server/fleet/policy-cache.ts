@@ -11,8 +11,11 @@ import { policies } from "../../db/schema";
 import type { Floorplan, Tile } from "../../lib/floorplan";
 import type { MotionModel } from "../../lib/motion";
 import { planPolicy, type Policy } from "../../lib/planning";
+import { logger } from "../logger";
 
 const MEMORY_ENTRIES = 64;
+/** Largest policy row written to the policies table (value + action bytes). */
+const MAX_STORED_POLICY_BYTES = 6 * 1024 * 1024;
 
 export function motionModelHash(model: MotionModel): string {
   return createHash("sha256").update(JSON.stringify(model)).digest("hex");
@@ -29,12 +32,17 @@ function toBuffer(array: Float64Array | Uint8Array): Buffer {
   return Buffer.from(array.buffer, array.byteOffset, array.byteLength);
 }
 
+// Node 20 does not carry the process's `--import tsx` hooks into worker threads (the worker
+// failed with "Unknown file extension .ts"), so the worker registers tsx itself, then loads the module.
+const WORKER_BOOTSTRAP = [
+  `import { register } from ${JSON.stringify(import.meta.resolve("tsx/esm/api"))};`,
+  "register();",
+  `await import(${JSON.stringify(new URL("./policy-worker.ts", import.meta.url).href)});`,
+].join("\n");
+
 function solveInWorker(plan: Floorplan, goal: Tile, model: MotionModel): Promise<Policy> {
   return new Promise((resolve, reject) => {
-    const worker = new Worker(new URL("./policy-worker.ts", import.meta.url), {
-      workerData: { plan, goal, model },
-      execArgv: ["--import", "tsx"],
-    });
+    const worker = new Worker(WORKER_BOOTSTRAP, { eval: true, workerData: { plan, goal, model } });
     worker.once("message", (msg: Pick<Policy, "value" | "action" | "sweeps" | "converged">) => {
       resolve({ ...msg, goal, model });
       void worker.terminate();
@@ -96,6 +104,14 @@ export class PolicyCache {
     const policy = await this.solveTransient(req.plan, req.goal, req.model);
     const computeMs = Math.round(performance.now() - started);
     this.stats.solved += 1;
+    const bytes = policy.value.byteLength + policy.action.byteLength;
+    // The table is a cache: a policy that is not stored is still the right answer, solved again
+    // next time. Rows over the limit are not sent at all: escaped, they would pass MariaDB's
+    // default max_allowed_packet (16 MB), and the refused packet also costs the pooled connection.
+    if (bytes > MAX_STORED_POLICY_BYTES) {
+      logger.warn({ versionId: req.versionId, goal: req.goal, bytes, limit: MAX_STORED_POLICY_BYTES }, "policy too large to store; kept in memory only");
+      return policy;
+    }
     await this.db
       .insert(policies)
       .ignore()
@@ -107,7 +123,8 @@ export class PolicyCache {
         value: toBuffer(policy.value),
         action: toBuffer(policy.action),
         computeMs,
-      });
+      })
+      .catch((err: unknown) => logger.warn({ err, versionId: req.versionId, goal: req.goal, bytes }, "policy solved but not stored"));
     return policy;
   }
 }

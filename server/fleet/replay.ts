@@ -6,13 +6,12 @@
  */
 import { and, asc, desc, eq, gt, gte, inArray, lte } from "drizzle-orm";
 import { createFilter, certainty, type Certainty, type Filter } from "../../lib/belief";
-import { beliefs, events, missions, robots, type MissionRow } from "../../db/schema";
-import { motionModelOf, resolveRobotSettings, sensorModelOf } from "../../lib/roster";
-import type { SensorSpec } from "../../lib/sensing";
+import { beliefs, events, missions, type MissionRow } from "../../db/schema";
 import { HEADINGS } from "../../lib/vocabulary";
 import { TesseraError } from "../errors";
 import type { Fleet } from "./fleet";
 import { applyToFilter, FILTER_EVENT_KINDS, type FilterTarget } from "./filter-events";
+import { missionRobot } from "./mission-robot";
 import { MODELS_EVENT, modelsAt, sameModels, type Models } from "./models-at";
 
 export interface ReplayResult {
@@ -52,21 +51,8 @@ export async function replayMission(fleet: Fleet, missionId: number, step?: numb
   }
   const target = k === 0 ? start.eventId : steps[k - 1].id;
 
-  const runtime = fleet.robots.get(mission.robotId);
+  const { current, sensors, runtime } = await missionRobot(fleet, mission.robotId, "replay");
   const plan = await fleet.planOf(mission.versionId);
-  let current: Models;
-  let sensors: SensorSpec[];
-  if (runtime) {
-    current = { motion: runtime.motion, sensor: runtime.sensorModel };
-    sensors = runtime.sensors;
-  } else {
-    // A retired robot is off the live floor; its missions replay with the models of its roster row.
-    const row = (await db.select().from(robots).where(eq(robots.id, mission.robotId)).limit(1))[0];
-    if (!row) throw new TesseraError("not_found", "replay", `Robot ${mission.robotId} of mission ${missionId} is not on the roster.`);
-    const { settings } = resolveRobotSettings(row.drive, row.settings);
-    current = { motion: motionModelOf(row.drive, settings), sensor: sensorModelOf(settings) };
-    sensors = row.sensors as SensorSpec[];
-  }
 
   // The nearest snapshot at or before the target bounds the work per seek.
   const snapshot = (

@@ -19,13 +19,16 @@ export interface MissionRuntime {
   awaiting: "moved" | "sensed" | null;
   lastAction: Action | null;
   policy: Policy;
-  /** A temporary policy around a robot that blocked this one for too long. */
+  /** A temporary policy around a robot that blocked this one for too long, and the tile it avoids; dropped once that tile is clear. */
   detour: Policy | null;
+  detourAround: Tile | null;
   /** Certainty has reached the release level since the mission started (or the last help). */
   armed: boolean;
   lowSteps: number;
   /** Consecutive `stay` actions chosen short of arrival. */
   stays: number;
+  /** Consecutive moves whose odometry says they did not happen. */
+  stuckMoves: number;
   claim: Tile | null;
   trafficSince: number | null;
   holds: number;
@@ -51,6 +54,8 @@ export class RobotRuntime {
   /** The last event that changed the belief (moved, sensed, relocate), for snapshots. */
   lastFilterEvent: QueuedEvent | number = 0;
   lastTruth: { row: number; col: number; heading: string } | null = null;
+  /** The gains last pushed with `tune`, sent again after each hello: a rebooted robot forgets them. */
+  tuned: { kp: number; ki: number; kd: number } | null = null;
   errors: number[] = [];
   /** Serialises this robot's messages: each is applied and committed before the next. */
   chain: Promise<void> = Promise.resolve();

@@ -1,20 +1,52 @@
 /**
  * The traffic rule for shared tiles: a robot is not sent onto a tile that another robot on
- * the same floorplan version has claimed for its next step, or confidently stands on.
+ * the same floorplan version has claimed for its next step, or confidently stands on. The
+ * other robots are peers: this process's robots and, with several nodes, the ones other
+ * nodes serve, as their frames last described them.
  */
 import type { Tile } from "../../lib/floorplan";
+import type { RobotFrame } from "../../lib/protocol";
+import type { HoldReason } from "../../lib/vocabulary";
 import type { RobotRuntime } from "./robot-runtime";
 
-/** The robot that keeps `runtime` off `tile`, or null; `trafficMass` is the tile mass that counts as standing there. */
-export function trafficBlocker(robots: Iterable<RobotRuntime>, runtime: RobotRuntime, tile: Tile, trafficMass: number): RobotRuntime | null {
-  for (const other of robots) {
-    if (other === runtime || other.versionId !== runtime.versionId) continue;
-    const claim = other.mission?.claim;
-    if (claim && claim.row === tile.row && claim.col === tile.col) return other;
-    if (other.online || other.mission) {
-      const oc = other.certainty();
-      if (oc.row === tile.row && oc.col === tile.col && oc.tileMass >= trafficMass) return other;
-    }
+export interface TrafficPeer {
+  id: string;
+  name: string;
+  versionId: number;
+  hold: HoldReason | null;
+  hasMission: boolean;
+  /** The tile claimed for the next step. */
+  claim: Tile | null;
+  /** The most likely tile and its mass, when the robot is online or on a mission (a robot off the link may still stand there mid-mission). */
+  standing: { row: number; col: number; tileMass: number } | null;
+}
+
+export function peerOfRuntime(r: RobotRuntime): TrafficPeer {
+  const c = r.online || r.mission ? r.certainty() : null;
+  return {
+    id: r.id,
+    name: r.name,
+    versionId: r.versionId,
+    hold: r.hold,
+    hasMission: r.mission !== null,
+    claim: r.mission?.claim ?? null,
+    standing: c ? { row: c.row, col: c.col, tileMass: c.tileMass } : null,
+  };
+}
+
+export function peerOfFrame(f: RobotFrame): TrafficPeer | null {
+  if (f.versionId === null) return null;
+  const standing = (f.online || f.mission) && f.estimate ? { row: f.estimate.row, col: f.estimate.col, tileMass: f.estimate.tileMass } : null;
+  return { id: f.robotId, name: f.name, versionId: f.versionId, hold: f.holdReason, hasMission: f.mission !== null, claim: f.mission?.claim ?? null, standing };
+}
+
+/** The peer that keeps robot `self` (on `versionId`) off `tile`, or null; `trafficMass` is the tile mass that counts as standing there. */
+export function trafficBlocker(peers: Iterable<TrafficPeer>, self: string, versionId: number, tile: Tile, trafficMass: number): TrafficPeer | null {
+  for (const other of peers) {
+    if (other.id === self || other.versionId !== versionId) continue;
+    if (other.claim && other.claim.row === tile.row && other.claim.col === tile.col) return other;
+    const s = other.standing;
+    if (s && s.row === tile.row && s.col === tile.col && s.tileMass >= trafficMass) return other;
   }
   return null;
 }

@@ -58,7 +58,14 @@ export interface WriterStats {
   snapshots: number;
 }
 
+type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
+
+/** Runs first inside each batch's transaction with the robots the batch writes for; throwing fails the batch. */
+export type WriteGuard = (tx: Tx, robotIds: Set<string>) => Promise<void>;
+
 export class FleetWriter {
+  /** Set when several nodes share the fleet: the ownership fence check (server/cluster/fence.ts). */
+  guard: WriteGuard | undefined;
   private open: Batch = newBatch();
   private timer: NodeJS.Timeout | undefined;
   private inFlight: Promise<void> = Promise.resolve();
@@ -127,6 +134,7 @@ export class FleetWriter {
     }
     try {
       await this.db.transaction(async (tx) => {
+        if (this.guard) await this.guard(tx, new Set([...batch.events.map((e) => e.row.robotId), ...batch.snapshots.map((s) => s.robotId)]));
         if (batch.events.length > 0) {
           const ids = await tx.insert(events).values(batch.events.map((e) => e.row)).$returningId();
           ids.forEach((row, i) => (batch.events[i].id = row.id));

@@ -5,12 +5,21 @@ import type { OpsCommand, OpsCommandName } from "../../lib/protocol";
 import type { SessionUser } from "../auth/options";
 import { TesseraError } from "../errors";
 import type { Actor, Fleet } from "../fleet/fleet";
+import { registry } from "../registry";
 
 export function actorOf(user: SessionUser): Actor {
   return { userId: Number(user.id), label: user.email };
 }
 
+/** Runs a command: on this node, or on the node that owns the robot when several nodes share the fleet. */
 export async function runCommand(fleet: Fleet, name: Exclude<OpsCommandName, "watch">, payload: unknown, user: SessionUser): Promise<unknown> {
+  const routed = registry().routeCommand;
+  if (routed && name !== "ackAlert") return routed(name, payload as { robotId: string }, user);
+  return runOnThisNode(fleet, name, payload, user);
+}
+
+/** Runs a command against this node's fleet service. */
+export async function runOnThisNode(fleet: Fleet, name: Exclude<OpsCommandName, "watch">, payload: unknown, user: SessionUser): Promise<unknown> {
   const actor = actorOf(user);
   switch (name) {
     case "dispatch": {

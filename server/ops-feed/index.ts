@@ -4,7 +4,7 @@
  * functions as the HTTP routes.
  */
 import type { Server, Socket } from "socket.io";
-import { OPS_EVENTS, OpsCommandSchemas, quantiseMarginal, type BeliefFrame, type OpsAck, type OpsCommandName } from "../../lib/protocol";
+import { OPS_EVENTS, OpsCommandSchemas, quantiseMarginal, type BeliefFrame, type OpsAck, type OpsCommandName, type RobotFrame } from "../../lib/protocol";
 import { roleAllows } from "../../lib/roles";
 import type { Role } from "../../lib/vocabulary";
 import type { SessionUser } from "../auth/options";
@@ -36,10 +36,19 @@ export const OPS_COMMAND_ROLES: Record<OpsCommandName, Role> = {
   fault: "admin",
 };
 
-export function attachOpsFeed(io: Server, fleet?: Fleet): void {
+/** `floor`, when several nodes share the fleet, answers `watch` with every node's robots. */
+export function attachOpsFeed(io: Server, fleet?: Fleet, floor?: (floorplanId: number) => Promise<{ robots: RobotFrame[]; beliefs: BeliefFrame[] }>): void {
   const nsp = io.of("/ops");
   nsp.use(async (socket, next) => {
-    const result = await checkOpsHandshake(socket.handshake.headers, { secret: config().NEXTAUTH_SECRET, allowedOrigins: allowedOrigins() });
+    let result: Awaited<ReturnType<typeof checkOpsHandshake>>;
+    try {
+      result = await checkOpsHandshake(socket.handshake.headers, { secret: config().NEXTAUTH_SECRET, allowedOrigins: allowedOrigins() });
+    } catch (err) {
+      // The user lookup needs MariaDB; without it the dashboard is refused and retries, the server stays up.
+      logger.error({ err }, "dashboard handshake failed");
+      next(Object.assign(new Error("internal"), { data: { code: "internal" } }));
+      return;
+    }
     if (!result.ok) {
       next(Object.assign(new Error(result.code), { data: { code: result.code } }));
       return;
@@ -65,6 +74,12 @@ export function attachOpsFeed(io: Server, fleet?: Fleet): void {
             for (const r of socket.rooms) if (r.startsWith("floorplan:")) void socket.leave(r);
             const floorplanId = (parsed.data as { floorplanId: number }).floorplanId;
             await socket.join(room(floorplanId));
+            if (floor) {
+              const view = await floor(floorplanId);
+              for (const b of view.beliefs) socket.emit(OPS_EVENTS.belief, b);
+              reply({ ok: true, data: { robots: view.robots, alerts: await recentAlerts(fleet.db) } });
+              return;
+            }
             const frames = fleet.frames(floorplanId);
             for (const frame of frames) {
               const m = fleet.marginal(frame.robotId);
@@ -89,6 +104,7 @@ export function attachOpsFeed(io: Server, fleet?: Fleet): void {
   if (!fleet) return;
   fleet.on("robot", (frame) => nsp.to(room(frame.floorplanId)).emit(OPS_EVENTS.robot, frame));
   fleet.on("removed", (gone) => nsp.to(room(gone.floorplanId)).emit(OPS_EVENTS.removed, { robotId: gone.robotId }));
+  fleet.on("floorplan", (frame) => nsp.to(room(frame.floorplanId)).emit(OPS_EVENTS.floorplan, frame));
   fleet.on("alert", (alert) =>
     nsp.to(room(alert.floorplanId)).emit(OPS_EVENTS.alert, { id: alert.id, robotId: alert.robotId, kind: alert.kind, message: alert.message, createdAt: alert.createdAt, ackBy: null, ackAt: null }),
   );

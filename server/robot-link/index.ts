@@ -6,7 +6,12 @@ import type { Fleet } from "../fleet/fleet";
 import { logger } from "../logger";
 import { checkRobotHandshake, handshakeError, type RobotSocket } from "./handshake";
 
-export function attachRobotLink(io: Server, db: Db, fleet?: Fleet): void {
+/**
+ * `claim`, when several nodes share the fleet, makes this node the robot's owner before its
+ * link is accepted; a claim that fails refuses the handshake with `internal`, which the
+ * robot retries.
+ */
+export function attachRobotLink(io: Server, db: Db, fleet?: Fleet, claim?: (robotId: string) => Promise<void>): void {
   const nsp = io.of("/robot");
   nsp.use(async (socket, next) => {
     try {
@@ -16,6 +21,7 @@ export function attachRobotLink(io: Server, db: Db, fleet?: Fleet): void {
         next(handshakeError(result.code));
         return;
       }
+      if (claim) await claim(result.robot.id);
       if (fleet && !fleet.config.replaceConnections && fleet.isConnected(result.robot.id)) {
         next(handshakeError("already_connected"));
         return;

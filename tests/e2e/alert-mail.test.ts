@@ -6,7 +6,7 @@
 import { io as connect, type Socket } from "socket.io-client";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { DEMO_SENSORS } from "../../db/seed";
-import { signInAs } from "../support/session";
+import { signInAs } from "../../scripts/sign-in";
 
 const appUrl = inject("appUrl");
 const name = `Alert probe ${Date.now()}`;

@@ -6,7 +6,7 @@
  */
 import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { AuditItem, CaughtMail, CrewMember } from "../../lib/crew/schemas";
-import { signInAs } from "../support/session";
+import { signInAs } from "../../scripts/sign-in";
 
 const appUrl = inject("appUrl");
 const stamp = `${process.pid}${Date.now() % 1_000_000}`;

@@ -10,7 +10,7 @@ import { audit, floorplanUploads, users } from "../../db/schema";
 import { parseFloorplan } from "../../lib/floorplan";
 import { floorplanFromJson } from "../../lib/floorplan/json";
 import { pngClaiming, pngOfLines } from "../support/png";
-import { signInAs } from "../support/session";
+import { signInAs } from "../../scripts/sign-in";
 
 const appUrl = inject("appUrl");
 const tag = `${process.pid}-${Date.now() % 100000}`;

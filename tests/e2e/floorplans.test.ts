@@ -54,6 +54,10 @@ describe("floorplans in the browser", () => {
       await page.getByRole("button", { name: "Import floorplan" }).click();
       await page.waitForURL(/\/floorplans\/\d+$/);
       const id = Number(new URL(page.url()).pathname.split("/").pop());
+      // A live floor of the new plan stays open in another tab while the admin edits it.
+      const floor = await context.newPage();
+      await floor.goto(`${appUrl}/floor?floorplan=${id}`);
+      await expect.poll(() => floor.getByTestId("connection-state").getAttribute("data-connection"), { timeout: 15_000 }).toBe("live");
 
       const canvas = page.getByRole("img", { name: /Editable floorplan, 8 rows by 12 columns/ });
       await canvas.waitFor();
@@ -90,6 +94,12 @@ describe("floorplans in the browser", () => {
       const versions = page.getByTestId("version-list");
       await expect.poll(() => versions.innerText(), { timeout: 10_000 }).toContain("Version 2");
       expect(await versions.innerText()).toContain("Shelf along row 2, dock by the door");
+      const newer = floor.getByTestId("newer-version");
+      await expect.poll(() => newer.textContent().catch(() => ""), { timeout: 10_000 }).toContain("Version 2 of this floorplan was saved.");
+      await floor.getByRole("button", { name: "Show version 2" }).click();
+      await expect.poll(() => floor.getByTestId("connection-state").getAttribute("data-connection"), { timeout: 15_000 }).toBe("live");
+      expect(await newer.count()).toBe(0);
+      await floor.close();
       await page.screenshot({ path: path.join(shots, "edited.png"), fullPage: true });
       await page.getByRole("button", { name: "Switch to the light theme" }).click();
       await expect.poll(() => page.evaluate(() => document.documentElement.classList.contains("dark"))).toBe(false);

@@ -14,7 +14,7 @@ import { emptyFloorplan } from "../../lib/floorplan";
 import { ROOT } from "../../scripts/local-env";
 import { withBrowser } from "../support/browser";
 import { mainThreadTasks } from "../support/trace";
-import { signInAs } from "../support/session";
+import { signInAs } from "../../scripts/sign-in";
 
 const appUrl = inject("appUrl");
 const ROBOTS = 10;

@@ -11,7 +11,7 @@ import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { DEMO_SENSORS } from "../../db/seed";
 import type { ServerMessage } from "../../lib/protocol";
 import { ROOT } from "../../scripts/local-env";
-import { signInAs } from "../support/session";
+import { signInAs } from "../../scripts/sign-in";
 import { withBrowser } from "../support/browser";
 
 const appUrl = inject("appUrl");

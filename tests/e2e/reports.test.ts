@@ -14,7 +14,7 @@ import { SHIFT_CSV_COLUMNS } from "../../lib/reports/shift-csv";
 import { ROOT } from "../../scripts/local-env";
 import { withBrowser } from "../support/browser";
 import { seedFloorplan, seedMissions, seedRobots } from "../support/report-seed";
-import { signInAs } from "../support/session";
+import { signInAs } from "../../scripts/sign-in";
 
 const appUrl = inject("appUrl");
 const shots = path.join(ROOT, "test-results", "reports");

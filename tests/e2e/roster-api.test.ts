@@ -4,7 +4,7 @@
  */
 import { describe, expect, inject, it } from "vitest";
 import { DEMO_SENSORS } from "../../db/seed";
-import { signInAs } from "../support/session";
+import { signInAs } from "../../scripts/sign-in";
 
 const appUrl = inject("appUrl");
 

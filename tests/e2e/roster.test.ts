@@ -11,7 +11,7 @@ import { describe, expect, inject, it } from "vitest";
 import { DEMO_SENSORS } from "../../db/seed";
 import { ROOT } from "../../scripts/local-env";
 import { withBrowser } from "../support/browser";
-import { signInAs } from "../support/session";
+import { signInAs } from "../../scripts/sign-in";
 
 const appUrl = inject("appUrl");
 const shots = path.join(ROOT, "test-results", "roster");

@@ -4,7 +4,7 @@ import { afterAll, describe, expect, inject, it } from "vitest";
 import { closeDb, openDb } from "../../db/client";
 import { withBrowser } from "../support/browser";
 import { insertTestRobot } from "../support/robot-fixtures";
-import { signInAs } from "../support/session";
+import { signInAs } from "../../scripts/sign-in";
 
 const appUrl = inject("appUrl");
 

@@ -80,6 +80,16 @@ describe("certainty curve", () => {
     expect((await certaintyCurve(server.fleet, missionId)).points).toEqual(live.points);
   });
 
+  it("still draws a retired robot's missions, with the models of its roster row", async () => {
+    await missionRun();
+    const before = await certaintyCurve(server.fleet, missionId);
+    await server.fleet.retire(robotId, actor);
+    expect(server.fleet.robots.has(robotId)).toBe(false);
+    const after = await certaintyCurve(server.fleet, missionId);
+    expect(after.points.map((p) => p.tileMass)).toEqual(before.points.map((p) => p.tileMass));
+    expect(after.marks).toEqual(before.marks);
+  });
+
   it("refuses a mission that does not exist", async () => {
     await expect(certaintyCurve(server.fleet, 987654321)).rejects.toThrow("no mission 987654321");
   });

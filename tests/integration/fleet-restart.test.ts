@@ -2,9 +2,10 @@
  * A restarted server rebuilds each robot's belief from its last snapshot plus the events
  * after it (ARCHITECTURE.md, "Durability"), and the mission carries on.
  */
-import { eq } from "drizzle-orm";
+import { and, desc, eq } from "drizzle-orm";
 import { afterAll, describe, expect, inject, it } from "vitest";
-import { missions } from "../../db/schema";
+import { closeDb, openDb } from "../../db/client";
+import { events, missions } from "../../db/schema";
 import type { ServerMessage } from "../../lib/protocol";
 import { connectRobot, helloPayload, scriptedRobot, startTestServer, type TestServer } from "../support/fleet-server";
 
@@ -55,6 +56,43 @@ describe("server restart", () => {
     expect(resumed[0].mission).toBe(mission.id);
     const [row] = await server.db.select().from(missions).where(eq(missions.id, mission.id));
     expect(row.state).toBe("active");
+    await server.fleet.cancel(robot.id, { userId: null, label: "test" });
+    again.close();
+  });
+
+  it("counts a step whose `next` the previous server sent but never stored", async () => {
+    const url = inject("databaseUrl");
+    server = await startTestServer(url);
+    const scripted = await scriptedRobot(server);
+    const { robot } = scripted;
+    const readings = [{ sensor: "floor", mark: 0 }];
+    await server.fleet.relocate(robot.id, { row: 13, col: 5, heading: "E" }, { userId: null, label: "test" });
+    const mission = await server.fleet.dispatch(robot.id, { row: 13, col: 20 }, { userId: null, label: "test" });
+    for (let step = 1; step <= 2; step++) expect(await scripted.step(readings)).toMatchObject({ step });
+    await expect.poll(() => scripted.nexts.length).toBe(3);
+    const carriedOut = scripted.nexts[2];
+    scripted.socket.close();
+    await server.stop();
+    // What a node killed before its last batch commit leaves: step 3 was sent and carried
+    // out, but neither its `next` nor the mission's step count reached the database.
+    const db = openDb(url);
+    const [lastNext] = await db.select({ id: events.id }).from(events).where(and(eq(events.robotId, robot.id), eq(events.kind, "next"))).orderBy(desc(events.id)).limit(1);
+    await db.delete(events).where(eq(events.id, lastNext.id));
+    await db.update(missions).set({ steps: 2 }).where(eq(missions.id, mission.id));
+    await closeDb();
+
+    server = await startTestServer(url);
+    expect(server.fleet.robots.get(robot.id)!.mission).toMatchObject({ id: mission.id, step: 2 });
+    const again = await connectRobot(server.url, { robot: robot.id, key: robot.key });
+    const resumed: ServerMessage["next"][] = [];
+    again.on("next", (m: ServerMessage["next"]) => resumed.push(m));
+    const seq = scripted.lastSeq();
+    expect(await again.call("hello", helloPayload(seq + 1))).toMatchObject({ ok: true, state: "under_way" });
+    // The robot reports the step it carried out while the link was down.
+    expect(await again.call("moved", { seq: seq + 2, at: Date.now(), action: carriedOut.action })).toMatchObject({ ok: true });
+    expect(await again.call("sensed", { seq: seq + 3, at: Date.now(), readings })).toMatchObject({ ok: true });
+    await expect.poll(() => resumed.at(-1)?.step, { timeout: 3000 }).toBe(4);
+    expect(server.fleet.robots.get(robot.id)!.mission?.step).toBe(4);
     await server.fleet.cancel(robot.id, { userId: null, label: "test" });
     again.close();
   });

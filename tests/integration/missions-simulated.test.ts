@@ -4,10 +4,11 @@
  */
 import { readFileSync } from "node:fs";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { inArray } from "drizzle-orm";
-import { missions } from "../../db/schema";
+import { desc, eq, inArray } from "drizzle-orm";
+import { alerts, missions } from "../../db/schema";
 import { DEMO_FLOORPLAN_FILE } from "../../db/seed";
 import { parseFloorplan } from "../../lib/floorplan";
+import { HEADINGS } from "../../lib/vocabulary";
 import { startFleet } from "../../simulators/fleet-runner";
 import { scriptedRobot, startTestServer, TEST_SENSORS, type TestServer } from "../support/fleet-server";
 
@@ -78,6 +79,53 @@ describe("simulated missions", { timeout: 120_000 }, () => {
     await server.fleet.cancel(robot.id, actor);
     scripted.socket.close();
   });
+  it("holds a robot whose moves do not move it, with reason fault, and goes on after an operator's release", async () => {
+    // A scripted robot that reports each forward with a millimetre of encoder travel, as one
+    // pushing against a box the map does not show would. It runs along row 13, clear of the
+    // corridor tile (10, 19) where the previous test's robot was left standing.
+    const scripted = await scriptedRobot(server);
+    const { robot } = scripted;
+    const runtime = () => server.fleet.robots.get(robot.id)!;
+    await server.fleet.relocate(robot.id, { row: 13, col: 20, heading: "W" }, actor);
+    const mission = await server.fleet.dispatch(robot.id, { row: 13, col: 2 }, actor);
+    const wedged = { distanceM: 0.001, turnDeg: 0 };
+    for (let step = 0; step < 2; step++) expect((await scripted.step([], wedged)).action).toBe("forward");
+    expect(runtime().hold).toBeNull();
+    await scripted.step([], wedged);
+    await expect.poll(() => runtime().hold).toBe("fault");
+    // The belief stayed where the robot is, rather than following the forwards it was sent.
+    expect(runtime().certainty()).toMatchObject({ row: 13, col: 20, heading: HEADINGS.indexOf("W") });
+    const lastAlert = async () => (await server.db.select().from(alerts).where(eq(alerts.robotId, robot.id)).orderBy(desc(alerts.id)).limit(1))[0];
+    await expect.poll(async () => (await lastAlert())?.message).toContain("its last 3 moves did not move it");
+    const sent = scripted.nexts.length;
+    await server.fleet.release(robot.id, actor);
+    await expect.poll(() => scripted.nexts.length).toBeGreaterThan(sent);
+    expect(runtime().mission?.id).toBe(mission.id);
+    await server.fleet.cancel(robot.id, actor);
+    scripted.socket.close();
+  });
+
+  it("fuses a reading that crosses a `next` on the wire without sending the robot another step", async () => {
+    // A robot's idle reading can leave before the `next` of a fresh dispatch reaches it. The
+    // server must still wait for that step's `moved`: a second `next` would queue behind the
+    // first and leave the robot one action behind every later choice.
+    const scripted = await scriptedRobot(server);
+    const { robot } = scripted;
+    await server.fleet.relocate(robot.id, { row: 13, col: 5, heading: "E" }, actor);
+    await server.fleet.dispatch(robot.id, { row: 13, col: 20 }, actor);
+    await expect.poll(() => scripted.nexts.length).toBe(1);
+    const readings = [{ sensor: "floor", mark: 0 }];
+    expect(await scripted.socket.call("sensed", { seq: scripted.nextSeq(), at: Date.now(), readings })).toMatchObject({ ok: true });
+    await new Promise((resolve) => setTimeout(resolve, 500));
+    // Step 1 may come twice (the server re-issues a pending step shortly after a hello), never step 2.
+    expect(new Set(scripted.nexts.map((n) => n.step))).toEqual(new Set([1]));
+    expect((await scripted.step(readings)).step).toBe(1);
+    await expect.poll(() => scripted.nexts.at(-1)?.step).toBe(2);
+    expect(scripted.nexts.filter((n) => n.step === 2)).toHaveLength(1);
+    await server.fleet.cancel(robot.id, actor);
+    scripted.socket.close();
+  });
+
   it("lets two robots cross in the corridor without ever standing on the same tile", async () => {
     // Head-on in the two-tile-wide corridor: the traffic rule makes one wait and the other go round.
     const west = await simulated({ row: 10, col: 6, heading: "E" }, 21);

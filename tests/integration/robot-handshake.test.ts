@@ -2,10 +2,10 @@
 import { createServer, type Server as HttpServer } from "node:http";
 import type { AddressInfo } from "node:net";
 import { Server } from "socket.io";
-import { io as connect } from "socket.io-client";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { closeDb, openDb, type Db } from "../../db/client";
 import { attachRobotLink } from "../../server/robot-link";
+import { tryRobotHandshake } from "../support/fleet-server";
 import { insertTestRobot } from "../support/robot-fixtures";
 
 let http: HttpServer;
@@ -27,19 +27,7 @@ afterAll(async () => {
   await closeDb();
 });
 
-function handshake(auth: Record<string, unknown>): Promise<{ connected: true } | { connected: false; data: unknown }> {
-  return new Promise((resolve) => {
-    const socket = connect(url, { auth, reconnection: false, transports: ["websocket"] });
-    socket.on("connect", () => {
-      socket.close();
-      resolve({ connected: true });
-    });
-    socket.on("connect_error", (err) => {
-      socket.close();
-      resolve({ connected: false, data: (err as Error & { data?: unknown }).data });
-    });
-  });
-}
+const handshake = (auth: Record<string, unknown>) => tryRobotHandshake(url, auth);
 
 describe("robot handshake", () => {
   it("admits a registered robot with its own key", async () => {

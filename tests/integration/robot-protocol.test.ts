@@ -81,7 +81,7 @@ describe("robot link", () => {
     rebooted.close();
   });
 
-  it("accepts truth only from simulated robots", async () => {
+  it("accepts truth only from simulated robots, and stores nothing of a refused one", async () => {
     const hardware = await server.addRobot({ simulated: false });
     const sim = await server.addRobot({ simulated: true });
     const hw = await connectRobot(server.url, { robot: hardware.id, key: hardware.key });
@@ -91,6 +91,12 @@ describe("robot link", () => {
     const truth = { seq: 2, at: Date.now(), row: 10, col: 3, heading: "E" };
     expect(await hw.call("truth", truth)).toMatchObject({ ok: false, code: "bad_message", message: expect.stringMatching(/simulated/) });
     expect(await sm.call("truth", truth)).toEqual({ ok: true, seq: 2 });
+    expect(await storedCount(hardware.id, 2)).toBe(0);
+    expect(await storedCount(hardware.id)).toBe(1);
+    expect(server.fleet.robots.get(hardware.id)!.lastTruth).toBeNull();
+    expect(await storedCount(sim.id, 2)).toBe(1);
+    // The refused seq was never applied: the robot may use it for its next real message.
+    expect(await hw.call("beat", { seq: 2, at: Date.now(), battery: 0.9, status: "ok" })).toEqual({ ok: true, seq: 2 });
     hw.close();
     sm.close();
   });

@@ -8,7 +8,6 @@
  */
 import { and, eq } from "drizzle-orm";
 import { NextRequest } from "next/server";
-import { io as connect } from "socket.io-client";
 import { afterAll, beforeAll, describe, expect, inject, it, vi } from "vitest";
 import { audit, missions, robots, users } from "../../db/schema";
 import { createFilter } from "../../lib/belief";
@@ -17,7 +16,7 @@ import { defaultRobotSettings, motionModelOf, type RobotSettings } from "../../l
 import type { Role } from "../../lib/vocabulary";
 import { replayMission } from "../../server/fleet/replay";
 import { registry } from "../../server/registry";
-import { connectRobot, helloPayload, startTestServer, TEST_SENSORS, type TestServer } from "../support/fleet-server";
+import { connectRobot, helloPayload, startTestServer, TEST_SENSORS, tryRobotHandshake, type TestServer } from "../support/fleet-server";
 
 const signedIn = vi.hoisted(() => ({ user: null as null | { id: string; email: string; name: string; role: string } }));
 vi.mock("next-auth", async (original) => ({
@@ -87,20 +86,7 @@ async function online(id: string, key: string) {
   return { socket, tunes, disconnected };
 }
 
-/** A fresh handshake: connected, or the connect_error's data. */
-function handshake(id: string, key: string): Promise<{ connected: true } | { connected: false; data: unknown }> {
-  return new Promise((resolve) => {
-    const socket = connect(`${server.url}/robot`, { auth: { robot: id, key }, reconnection: false, transports: ["websocket"] });
-    socket.on("connect", () => {
-      socket.close();
-      resolve({ connected: true });
-    });
-    socket.on("connect_error", (err) => {
-      socket.close();
-      resolve({ connected: false, data: (err as Error & { data?: unknown }).data });
-    });
-  });
-}
+const handshake = (id: string, key: string) => tryRobotHandshake(`${server.url}/robot`, { robot: id, key });
 
 function tuned(): RobotSettings {
   return {
@@ -388,5 +374,22 @@ describe("pushing gains with tune", () => {
     expect(TuneSchema.safeParse(robot.tunes[0]).success).toBe(true);
     const [entry] = await auditRows("tune", id);
     expect(entry.detail).toEqual({ gains: { kp: 4.5, ki: 0.25, kd: 0.08 } });
+
+    // A robot that reconnects (a reboot forgets pushed gains) gets them again after its hello,
+    // from this server and from one restarted on the same database.
+    robot.socket.close();
+    const back = await online(id, made.key);
+    await expect.poll(() => back.tunes).toEqual([{ pid: { kp: 4.5, ki: 0.25, kd: 0.08 } }]);
+    back.socket.close();
+    await server.fleet.writer.flush();
+    const rebuilt = await server.fleet.load((await server.db.select().from(robots).where(eq(robots.id, id)))[0]);
+    expect(rebuilt.tuned).toEqual({ kp: 4.5, ki: 0.25, kd: 0.08 });
+  });
+
+  it("sends no tune after hello to a robot whose gains were never pushed", async () => {
+    const { body: made } = await register();
+    const robot = await online(made.robot.id as string, made.key);
+    await robot.socket.call("beat", { seq: 2, at: Date.now(), battery: 0.9, status: "ok" });
+    expect(robot.tunes).toEqual([]);
   });
 });

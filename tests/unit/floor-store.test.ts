@@ -110,4 +110,13 @@ describe("selection and alerts", () => {
     expect(alerts.map((a) => a.id)).toEqual([6, 5]);
     expect(alerts[1].ackBy).toBe("Operator Olu");
   });
+
+  it("offers a newer version of its own floorplan only", () => {
+    const store = createFloorStore(snapshot([robot("r2", "Tern-2")]));
+    store.getState().noteVersion({ floorplanId: 9, versionId: 20, version: 2 });
+    store.getState().noteVersion({ floorplanId: 3, versionId: 8, version: 1 });
+    expect(store.getState().newerVersion).toBeNull();
+    store.getState().noteVersion({ floorplanId: 3, versionId: 21, version: 2 });
+    expect(store.getState().newerVersion).toEqual({ versionId: 21, version: 2 });
+  });
 });

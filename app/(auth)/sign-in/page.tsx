@@ -24,7 +24,7 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
           <h1 className="mt-2 text-xl font-semibold">Sign in to the floor</h1>
           <p className="mt-1 text-sm text-ink-500">Fleet localisation, dispatch and safety holds.</p>
         </div>
-        <SignInForm callbackUrl={callbackUrl} />
+        <SignInForm callbackUrl={callbackUrl} initialError={typeof params.error === "string" ? params.error : undefined} />
         <p className="mt-4 text-sm">
           <Link href="/reset" className="text-ink-300 underline underline-offset-4 hover:text-ink-100">
             Forgot password?

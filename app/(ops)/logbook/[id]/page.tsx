@@ -39,10 +39,9 @@ export default async function MissionPage({ params }: { params: Promise<{ id: st
   const id = Number(raw);
   if (!Number.isInteger(id) || id <= 0) notFound();
   const { mission } = await missionDetail(id).catch(() => notFound());
-  const robot = runningFleet().robots.get(mission.robotId);
-  const plan = robot?.floorplanId ? await floorplanView(robot.floorplanId, mission.versionId) : null;
+  const plan = await floorplanView(mission.floorplanId, mission.versionId);
   const replay = await replayMission(runningFleet(), id).catch(() => null);
-  const models = robot ? robotModels(runningFleet(), mission.robotId) : null;
+  const models = await robotModels(runningFleet(), mission.robotId).catch(() => null);
   const { items, next } = await missionEvents(id, 0, 300);
   const notes = await listNotes(appDbForRoutes(), id);
   // Notes sit on the timeline at the time they were written, among the messages.
@@ -56,7 +55,7 @@ export default async function MissionPage({ params }: { params: Promise<{ id: st
     <section className="mx-auto max-w-6xl space-y-5 p-6">
       <div className="flex flex-wrap items-baseline justify-between gap-3">
         <h1 className="text-xl font-semibold">
-          Mission #{mission.id} · {robot?.name ?? mission.robotId} to ({mission.goal.row}, {mission.goal.col})
+          Mission #{mission.id} · {mission.robotName} to ({mission.goal.row}, {mission.goal.col})
         </h1>
         <div className="flex gap-3 text-sm">
           <Link className="text-tide underline underline-offset-2" href={`/logbook/${id}/summary`}>

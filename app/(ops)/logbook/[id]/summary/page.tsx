@@ -23,7 +23,6 @@ export default async function MissionSummaryPage({ params }: { params: Promise<{
   if (!Number.isInteger(id) || id <= 0) notFound();
   const { mission } = await missionDetail(id).catch(() => notFound());
   const fleet = runningFleet();
-  const robot = fleet.robots.get(mission.robotId);
   const [final, curve, notes] = await Promise.all([
     replayMission(fleet, id).catch(() => null),
     certaintyCurve(fleet, id).catch(() => null),
@@ -31,7 +30,7 @@ export default async function MissionSummaryPage({ params }: { params: Promise<{
   ]);
   const c = final?.certainty;
   const facts: [string, string][] = [
-    ["Robot", robot?.name ?? mission.robotId],
+    ["Robot", mission.robotName],
     ["Floorplan version", String(mission.versionId)],
     ["Goal tile", `(${mission.goal.row}, ${mission.goal.col})`],
     ["Outcome", mission.state],

@@ -1,8 +1,8 @@
-import { route, runCommand, runningFleet } from "@/server/facade";
+import { robotFrameNow, route, runCommand, runningFleet } from "@/server/facade";
 
 export const dynamic = "force-dynamic";
 
 export const POST = route({ role: "operator", surface: "release" }, async ({ params, user }) => {
   await runCommand(runningFleet(), "release", { robotId: params.id }, user!);
-  return { robot: runningFleet().frame(runningFleet().robots.get(params.id)!) };
+  return { robot: await robotFrameNow(params.id) };
 });

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { HEADINGS } from "@/lib/vocabulary";
-import { route, runCommand, runningFleet } from "@/server/facade";
+import { robotFrameNow, route, runCommand, runningFleet } from "@/server/facade";
 
 export const dynamic = "force-dynamic";
 
@@ -8,5 +8,5 @@ const RelocateBody = z.object({ row: z.number().int().min(0), col: z.number().in
 
 export const POST = route({ role: "operator", surface: "relocate", body: RelocateBody }, async ({ params, body, user }) => {
   await runCommand(runningFleet(), "relocate", { robotId: params.id, ...body }, user!);
-  return { robot: runningFleet().frame(runningFleet().robots.get(params.id)!) };
+  return { robot: await robotFrameNow(params.id) };
 });

@@ -1,0 +1,1 @@
+ALTER TABLE `robots` ADD `fence` bigint unsigned DEFAULT 0 NOT NULL;
