@@ -52,6 +52,12 @@ export interface Actor {
 
 type AckFn = (ack: Ack) => void;
 
+/**
+ * After a hello (or a release from a storage hold) the mission resumes this much later, so
+ * the messages the robot resends come first; then a step it never received is sent again.
+ */
+const RESUME_AFTER_MS = 300;
+
 function refuse(seq: number | null, code: AckCode, message: string): Ack {
   return { ok: false, seq, code, message };
 }
@@ -256,8 +262,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
     for (const runtime of lifted) {
       runtime.socket?.emit("release", runtime.mission ? { mission: runtime.mission.id } : {});
       if (runtime.socket?.connected) runtime.lastMessageAt = now;
-      // As after a reconnect: the robot's resent messages come first, then the mission is resumed.
-      runtime.resumeAt = now + 300;
+      runtime.resumeAt = now + RESUME_AFTER_MS;
       this.publish(runtime);
       this.publishBelief(runtime);
     }
@@ -362,8 +367,11 @@ export class Fleet extends EventEmitter<FleetEvents> {
         .where(and(eq(events.robotId, runtime.id), eq(events.seq, msg.seq)))
         .limit(1);
       if (name === "hello") {
+        // A robot that reconnects with messages still waiting keeps its hello's seq, so a
+        // repeated hello is the usual resync after a dropped link, and the mission resumes as after any other.
         this.comeOnline(runtime);
         this.retune(runtime);
+        runtime.resumeAt = Date.now() + RESUME_AFTER_MS;
         const state = { lastSeq: runtime.lastSeq, state: robotState(runtime), mission: missionRef(runtime) };
         if (seen.length) return { ok: true, seq: msg.seq, dup: true, ...state };
         return { ...refuse(msg.seq, "out_of_order", `seq ${msg.seq} is below the last applied seq ${runtime.lastSeq}; continue from ${runtime.lastSeq + 1}`), lastSeq: runtime.lastSeq, state: state.state };
@@ -476,7 +484,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
     for (const fn of after) fn();
     this.publish(runtime);
     if (name === "hello") {
-      runtime.resumeAt = Date.now() + 300;
+      runtime.resumeAt = Date.now() + RESUME_AFTER_MS;
       return { ok: true, seq: msg.seq, lastSeq: runtime.lastSeq, state: robotState(runtime), mission: missionRef(runtime) };
     }
     return { ok: true, seq: msg.seq };

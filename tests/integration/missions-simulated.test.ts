@@ -10,7 +10,8 @@ import { DEMO_FLOORPLAN_FILE } from "../../db/seed";
 import { parseFloorplan } from "../../lib/floorplan";
 import { HEADINGS } from "../../lib/vocabulary";
 import { startFleet } from "../../simulators/fleet-runner";
-import { scriptedRobot, startTestServer, TEST_SENSORS, type TestServer } from "../support/fleet-server";
+import type { ServerMessage } from "../../lib/protocol";
+import { connectRobot, helloPayload, scriptedRobot, startTestServer, TEST_SENSORS, type TestServer } from "../support/fleet-server";
 
 const plan = parseFloorplan(readFileSync(DEMO_FLOORPLAN_FILE, "utf8"));
 const actor = { userId: null, label: "test" };
@@ -124,6 +125,30 @@ describe("simulated missions", { timeout: 120_000 }, () => {
     expect(scripted.nexts.filter((n) => n.step === 2)).toHaveLength(1);
     await server.fleet.cancel(robot.id, actor);
     scripted.socket.close();
+  });
+
+  it("sends a step again to a robot that reconnects with its earlier hello seq, so a `next` lost in the drop is not waited for forever", async () => {
+    // A robot whose link drops with messages still unsent keeps its hello's seq (PROTOCOL.md:
+    // hello is the resync point even when seen before); a `next` sent as the link dropped never arrived.
+    const scripted = await scriptedRobot(server);
+    const { robot } = scripted;
+    await server.fleet.relocate(robot.id, { row: 13, col: 5, heading: "E" }, actor);
+    await server.fleet.dispatch(robot.id, { row: 13, col: 20 }, actor);
+    await expect.poll(() => scripted.nexts.length).toBe(1);
+    // The first hello's own resume has passed, so only the second hello can bring the step back.
+    await expect.poll(() => server.fleet.robots.get(robot.id)?.resumeAt).toBeNull();
+    scripted.socket.close();
+    const again = await connectRobot(server.url, { robot: robot.id, key: robot.key });
+    const nexts: ServerMessage["next"][] = [];
+    again.on("next", (m: ServerMessage["next"]) => nexts.push(m));
+    expect(await again.call("hello", helloPayload(1))).toMatchObject({ ok: true, seq: 1, dup: true });
+    await expect.poll(() => nexts.map((n) => n.step), { timeout: 3000 }).toEqual([1]);
+    let seq = scripted.lastSeq();
+    expect(await again.call("moved", { seq: ++seq, at: Date.now(), action: nexts[0].action })).toMatchObject({ ok: true });
+    expect(await again.call("sensed", { seq: ++seq, at: Date.now(), readings: [{ sensor: "floor", mark: 0 }] })).toMatchObject({ ok: true });
+    await expect.poll(() => nexts.at(-1)?.step).toBe(2);
+    await server.fleet.cancel(robot.id, actor);
+    again.close();
   });
 
   it("lets two robots cross in the corridor without ever standing on the same tile", async () => {
