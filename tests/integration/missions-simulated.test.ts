@@ -143,9 +143,9 @@ describe("simulated missions", { timeout: 120_000 }, () => {
     again.on("next", (m: ServerMessage["next"]) => nexts.push(m));
     expect(await again.call("hello", helloPayload(1))).toMatchObject({ ok: true, seq: 1, dup: true });
     await expect.poll(() => nexts.map((n) => n.step), { timeout: 3000 }).toEqual([1]);
-    let seq = scripted.lastSeq();
-    expect(await again.call("moved", { seq: ++seq, at: Date.now(), action: nexts[0].action })).toMatchObject({ ok: true });
-    expect(await again.call("sensed", { seq: ++seq, at: Date.now(), readings: [{ sensor: "floor", mark: 0 }] })).toMatchObject({ ok: true });
+    const seq = scripted.lastSeq();
+    expect(await again.call("moved", { seq: seq + 1, at: Date.now(), action: nexts[0].action })).toMatchObject({ ok: true });
+    expect(await again.call("sensed", { seq: seq + 2, at: Date.now(), readings: [{ sensor: "floor", mark: 0 }] })).toMatchObject({ ok: true });
     await expect.poll(() => nexts.at(-1)?.step).toBe(2);
     await server.fleet.cancel(robot.id, actor);
     again.close();
