@@ -55,6 +55,10 @@ export function RobotCard() {
   const robot = useFloor((s) => (s.selectedId ? s.robots[s.selectedId] : undefined));
   const pick = useFloor((s) => s.pick);
   const pending = useFloor((s) => (s.selectedId ? s.pendingGoals[s.selectedId] : undefined));
+  const givingWayTo = useFloor((s) => {
+    const id = s.selectedId ? s.robots[s.selectedId]?.mission?.givingWayTo : null;
+    return id ? (s.robots[id]?.name ?? id) : null;
+  });
   const commands = useFloorCommands();
 
   if (!robot) {
@@ -94,7 +98,7 @@ export function RobotCard() {
         <dt className="text-ink-500">Mission</dt>
         <dd data-testid="robot-card-mission" className="font-mono tabular-nums">
           {robot.mission
-            ? `#${robot.mission.id} → (${robot.mission.goal.row}, ${robot.mission.goal.col}), step ${robot.mission.step}, ${robot.mission.route.length} tiles to go`
+            ? `#${robot.mission.id} → (${robot.mission.goal.row}, ${robot.mission.goal.col}), step ${robot.mission.step}, ${givingWayTo ? `stepping aside for ${givingWayTo}` : `${robot.mission.route.length} tiles to go`}`
             : pending
               ? `sending → (${pending.row}, ${pending.col})…`
               : "none"}

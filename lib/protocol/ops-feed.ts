@@ -38,6 +38,8 @@ export const RobotFrameSchema = z.object({
       claim: TileSchema.nullable(),
       /** Tiles the policy would take from the most likely pose, goal last. */
       route: z.array(TileSchema),
+      /** The robot it is stepping aside for, when it has backed off so that robot can pass. */
+      givingWayTo: z.string().nullable(),
     })
     .nullable(),
   /** Recent certainty (tileMass) values, oldest first, for sparklines. */

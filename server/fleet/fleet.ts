@@ -12,7 +12,7 @@ import { alerts, audit, beliefs, events, missions, robots, type Robot } from "..
 import { tileMarginal } from "../../lib/belief";
 import { isFreeTile, stateIndex, type Floorplan, type Tile } from "../../lib/floorplan";
 import { actionCarriedOut } from "../../lib/motion";
-import { chooseAction, dualModeState } from "../../lib/planning";
+import { chooseAction, dualModeState, giveWayTile, onRoute } from "../../lib/planning";
 import { resolveRobotSettings, type RobotSettings } from "../../lib/roster";
 import {
   MAX_MESSAGE_BYTES,
@@ -35,13 +35,13 @@ import type { FleetConfig } from "../config";
 import { TesseraError } from "../errors";
 import { logger } from "../logger";
 import { PolicyCache } from "./policy-cache";
-import { likelyTile } from "./route-preview";
+import { likelyTile, routePreview } from "./route-preview";
 import { MODELS_EVENT } from "./models-at";
 import { applyToFilter, FILTER_EVENT_KINDS } from "./filter-events";
 import { missionRef, robotFrame, robotState } from "./frames";
 import { RobotRuntime, type MissionRuntime } from "./robot-runtime";
 import { StorageWatch } from "./storage-watch";
-import { peerOfRuntime, trafficBlocker, type TrafficPeer } from "./traffic";
+import { occupiedTiles, peerOfRuntime, trafficBlocker, type TrafficPeer } from "./traffic";
 import { FleetWriter } from "./writer";
 
 /** Who asked for a command: a signed-in user, or the server itself (demo scheduler). */
@@ -60,6 +60,13 @@ const RESUME_AFTER_MS = 300;
 
 function refuse(seq: number | null, code: AckCode, message: string): Ack {
   return { ok: false, seq, code, message };
+}
+
+/** A copy of `plan` with `tile` blocked, to plan round a robot standing there. */
+function withBlockedTile(plan: Floorplan, tile: Tile): Floorplan {
+  const blocked = Uint8Array.from(plan.blocked);
+  blocked[tile.row * plan.cols + tile.col] = 1;
+  return { ...plan, blocked };
 }
 
 function describeIssue(issue: { path: PropertyKey[]; message: string }): string {
@@ -571,12 +578,23 @@ export class Fleet extends EventEmitter<FleetEvents> {
   private sendNext(runtime: RobotRuntime): void {
     const mission = runtime.mission;
     if (!mission || mission.awaiting) return;
-    if (mission.detourAround && !trafficBlocker(this.peers(), runtime.id, runtime.versionId, mission.detourAround, this.config.trafficMass)) {
+    const c = runtime.certainty();
+    if (mission.giveWay) {
+      if (!this.givenWay(runtime, mission, mission.giveWay.to)) {
+        if (c.row === mission.giveWay.tile.row && c.col === mission.giveWay.tile.col) {
+          this.waitAside(runtime);
+          return;
+        }
+      } else {
+        mission.giveWay = null;
+        mission.detour = null;
+        mission.detourAround = null;
+      }
+    } else if (mission.detourAround && !trafficBlocker(this.peers(), runtime.id, runtime.versionId, mission.detourAround, this.config.trafficMass)) {
       mission.detour = null;
       mission.detourAround = null;
     }
     const policy = mission.detour ?? mission.policy;
-    const c = runtime.certainty();
     // QMDP never moves just to learn, so while the belief is spread the robot acts as one
     // likely state (dual-mode control, lib/planning/dual-mode.ts).
     const guide = c.tileMass < this.config.releaseAbove ? dualModeState(runtime.plan, runtime.filter.belief, mission.goal) : -1;
@@ -633,9 +651,12 @@ export class Fleet extends EventEmitter<FleetEvents> {
       return;
     }
     if (mission.trafficSince === null || now - mission.trafficSince < this.config.trafficReplanMs) return;
+    // A robot on its way aside is clearing this one's way: waiting for it is the plan.
+    if (blocker.givingWay && blocker.hold !== "traffic") return;
     // Two robots waiting on each other would both detour the same way and meet again:
-    // only the one with the larger id gives way; a robot blocked by a parked one always does.
-    const mutual = blocker.hold === "traffic" && blocker.hasMission;
+    // only the one with the larger id gives way; a robot blocked by a parked one, or by one
+    // that is itself stepping aside, always does.
+    const mutual = blocker.hold === "traffic" && blocker.hasMission && !blocker.givingWay;
     if (mutual && runtime.id < blocker.id) return;
     const waitedS = Math.round((now - mission.trafficSince) / 1000);
     if (tile.row === mission.goal.row && tile.col === mission.goal.col) {
@@ -645,17 +666,68 @@ export class Fleet extends EventEmitter<FleetEvents> {
       return;
     }
     mission.trafficSince = now;
-    const plan: Floorplan = { ...runtime.plan, blocked: Uint8Array.from(runtime.plan.blocked) };
-    plan.blocked[tile.row * plan.cols + tile.col] = 1;
-    void this.alert(runtime, "traffic", `${runtime.name} waited ${waitedS} s for ${blocker.name}; re-planning around tile (${tile.row}, ${tile.col})`);
+    const plan = withBlockedTile(runtime.plan, tile);
     this.policies.solveTransient(plan, mission.goal, runtime.motion).then(
       (detour) => {
         if (runtime.mission !== mission) return;
-        mission.detour = detour;
-        mission.detourAround = tile;
+        const c = runtime.certainty();
+        // A policy's value is −1 where the goal cannot be reached (lib/planning/plan-policy.ts).
+        if (detour.value[stateIndex(plan, c.row, c.col, c.heading)] >= 0) {
+          mission.detour = detour;
+          mission.detourAround = tile;
+          void this.alert(runtime, "traffic", `${runtime.name} waited ${waitedS} s for ${blocker.name}; re-planning around tile (${tile.row}, ${tile.col})`);
+        } else {
+          this.stepAside(runtime, mission, blocker, tile, plan, waitedS);
+        }
       },
       (err: unknown) => logger.error({ err, robot: runtime.id }, "detour around traffic could not be planned"),
     );
+  }
+
+  /**
+   * Every way to the goal runs through the robot in front (a one-tile doorway, a bay with one
+   * way in). If this robot stands in that one's way too, it backs off to the nearest tile off
+   * that robot's route and waits there until it has passed; otherwise waiting is all there is.
+   */
+  private stepAside(runtime: RobotRuntime, mission: MissionRuntime, blocker: TrafficPeer, tile: Tile, plan: Floorplan, waitedS: number): void {
+    const c = runtime.certainty();
+    const route = blocker.hasMission ? blocker.route : [];
+    const others = [...this.peers()].filter((p) => p.id !== runtime.id && p.versionId === runtime.versionId);
+    const aside = onRoute(route, c) ? giveWayTile(runtime.plan, c, [tile, ...others.flatMap(occupiedTiles)], route) : null;
+    if (!aside) {
+      void this.alert(runtime, "traffic", `${runtime.name} waited ${waitedS} s for ${blocker.name}, which stands in the only way to (${mission.goal.row}, ${mission.goal.col})`);
+      return;
+    }
+    this.policies.solveTransient(plan, aside, runtime.motion).then(
+      (back) => {
+        if (runtime.mission !== mission) return;
+        mission.detour = back;
+        mission.detourAround = tile;
+        mission.giveWay = { to: blocker.id, tile: aside };
+        void this.alert(runtime, "traffic", `${runtime.name} waited ${waitedS} s for ${blocker.name} and no way round it reaches (${mission.goal.row}, ${mission.goal.col}); backing off to (${aside.row}, ${aside.col}) to let it pass`);
+        this.publish(runtime);
+      },
+      (err: unknown) => logger.error({ err, robot: runtime.id }, "a way aside could not be planned"),
+    );
+  }
+
+  /** The robot this one stepped aside for is done with its way: its mission is over, or it no longer stands on or claims a tile of this robot's own route. */
+  private givenWay(runtime: RobotRuntime, mission: MissionRuntime, to: string): boolean {
+    const other = [...this.peers()].find((p) => p.id === to);
+    if (!other || !other.hasMission || other.versionId !== runtime.versionId) return true;
+    const c = runtime.certainty();
+    const own = routePreview(runtime.plan, runtime.filter.table, mission.policy.action, stateIndex(runtime.plan, c.row, c.col, c.heading), mission.goal);
+    return !occupiedTiles(other).some((t) => onRoute(own, t));
+  }
+
+  /** Waits on the tile it stepped aside to, held for traffic, until the other robot has passed. */
+  private waitAside(runtime: RobotRuntime): void {
+    const mission = runtime.mission as MissionRuntime;
+    if (runtime.hold === "traffic") return;
+    runtime.hold = "traffic";
+    mission.trafficSince = null;
+    this.command(runtime, "hold", { reason: "traffic", mission: mission.id });
+    this.publish(runtime);
   }
 
   private placeHold(runtime: RobotRuntime, reason: HoldReason, why: string): void {
@@ -971,5 +1043,5 @@ function seqOf(raw: unknown): number | null {
 }
 
 function newMission(id: number, goal: Tile, versionId: number, policy: MissionRuntime["policy"], step: number, holds: number): MissionRuntime {
-  return { id, goal, versionId, step, awaiting: null, lastAction: null, policy, detour: null, detourAround: null, armed: false, lowSteps: 0, stays: 0, stuckMoves: 0, claim: null, trafficSince: null, holds, minCertainty: 1 };
+  return { id, goal, versionId, step, awaiting: null, lastAction: null, policy, detour: null, detourAround: null, giveWay: null, armed: false, lowSteps: 0, stays: 0, stuckMoves: 0, claim: null, trafficSince: null, holds, minCertainty: 1 };
 }

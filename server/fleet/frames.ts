@@ -1,8 +1,7 @@
 /** What dashboards and robots are told about a robot: its state word, its mission, its frame. */
 import { HEADINGS, type RobotState } from "../../lib/vocabulary";
-import { stateIndex, type Tile } from "../../lib/floorplan";
 import type { RobotFrame } from "../../lib/protocol";
-import { routePreview } from "./route-preview";
+import { missionRoute } from "./route-preview";
 import type { RobotRuntime } from "./robot-runtime";
 
 /** How long a robot shows as "arrived" after reaching its goal, in ms. */
@@ -26,12 +25,6 @@ export function missionRef(runtime: RobotRuntime) {
 export function robotFrame(runtime: RobotRuntime): RobotFrame {
   const c = runtime.certainty();
   const m = runtime.mission;
-  let route: Tile[] = [];
-  if (m) {
-    const policy = m.detour ?? m.policy;
-    const here = stateIndex(runtime.plan, c.row, c.col, c.heading);
-    route = routePreview(runtime.plan, runtime.filter.table, policy.action, here, m.goal);
-  }
   return {
     robotId: runtime.id,
     name: runtime.name,
@@ -43,7 +36,7 @@ export function robotFrame(runtime: RobotRuntime): RobotFrame {
     holdReason: runtime.hold,
     battery: runtime.battery,
     estimate: { row: c.row, col: c.col, heading: HEADINGS[c.heading], tileMass: c.tileMass, entropy: c.entropy },
-    mission: m ? { id: m.id, goal: m.goal, step: m.step, claim: m.claim, route } : null,
+    mission: m ? { id: m.id, goal: m.goal, step: m.step, claim: m.claim, route: missionRoute(runtime), givingWayTo: m.giveWay?.to ?? null } : null,
     certaintyHistory: [...runtime.certaintyHistory],
     lastMessageAt: runtime.lastMessageAt,
   };

@@ -22,6 +22,8 @@ export interface MissionRuntime {
   /** A temporary policy around a robot that blocked this one for too long, and the tile it avoids; dropped once that tile is clear. */
   detour: Policy | null;
   detourAround: Tile | null;
+  /** Stepping aside for a robot that has no way round this one: which robot, and the tile to wait on until it has passed. */
+  giveWay: { to: string; tile: Tile } | null;
   /** Certainty has reached the release level since the mission started (or the last help). */
   armed: boolean;
   lowSteps: number;

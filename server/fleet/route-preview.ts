@@ -1,7 +1,8 @@
 /** The route a policy would take from a pose, following each action's most likely outcome. */
-import type { Floorplan, Tile } from "../../lib/floorplan";
+import { stateIndex, type Floorplan, type Tile } from "../../lib/floorplan";
 import type { TransitionTable } from "../../lib/motion";
 import { NO_ACTION } from "../../lib/vocabulary";
+import type { RobotRuntime } from "./robot-runtime";
 
 /** The most likely next state after action `a` from state `s`; `s` itself when there is none. */
 export function likelyNext(table: TransitionTable, s: number, a: number): number {
@@ -40,4 +41,13 @@ export function routePreview(plan: Floorplan, table: TransitionTable, action: Ui
     s = likelyNext(table, s, a);
   }
   return route;
+}
+
+/** The route of a robot's mission from its most likely pose, under the policy it follows now; empty without a mission. */
+export function missionRoute(runtime: RobotRuntime): Tile[] {
+  const m = runtime.mission;
+  if (!m) return [];
+  const c = runtime.certainty();
+  const here = stateIndex(runtime.plan, c.row, c.col, c.heading);
+  return routePreview(runtime.plan, runtime.filter.table, (m.detour ?? m.policy).action, here, m.goal);
 }

@@ -178,6 +178,33 @@ describe("simulated missions", { timeout: 120_000 }, () => {
       await east.fleet.stop();
     }
   });
+  it("has one robot back out of a one-tile doorway when two meet in it, and both reach their goals", async () => {
+    // The left lab's only door is (9, 4): no way round exists, so re-planning alone would leave
+    // both waiting for ever; the one that gives way steps aside off the other's route.
+    const inside = await simulated({ row: 8, col: 4, heading: "S" }, 41);
+    const outside = await simulated({ row: 10, col: 4, heading: "N" }, 42);
+    const shared: string[] = [];
+    const watch = setInterval(() => {
+      const a = inside.runtime().lastTruth;
+      const b = outside.runtime().lastTruth;
+      if (a && b && a.row === b.row && a.col === b.col) shared.push(`(${a.row}, ${a.col})`);
+    }, 5);
+    try {
+      await server.fleet.relocate(inside.robot.id, { row: 8, col: 4, heading: "S" }, actor);
+      await server.fleet.relocate(outside.robot.id, { row: 10, col: 4, heading: "N" }, actor);
+      await server.fleet.dispatch(inside.robot.id, { row: 11, col: 5 }, actor);
+      await server.fleet.dispatch(outside.robot.id, { row: 7, col: 3 }, actor);
+      await expect.poll(() => [inside.runtime().lastOutcome?.outcome, outside.runtime().lastOutcome?.outcome], { timeout: 90_000, interval: 200 }).toEqual(["reached", "reached"]);
+      expect(shared).toEqual([]);
+      const said = await server.db.select({ message: alerts.message }).from(alerts).where(inArray(alerts.robotId, [inside.robot.id, outside.robot.id]));
+      expect(said.map((a) => a.message).filter((m) => m.includes("backing off")).length).toBeGreaterThan(0);
+    } finally {
+      clearInterval(watch);
+      await inside.fleet.stop();
+      await outside.fleet.stop();
+    }
+  });
+
   it("carries an admin's kidnap to the simulator and refuses faults for hardware", async () => {
     const sim = await simulated({ row: 2, col: 3, heading: "E" }, 31);
     try {
