@@ -152,57 +152,51 @@ describe("simulated missions", { timeout: 120_000 }, () => {
     again.close();
   });
 
-  it("lets two robots cross in the corridor without ever standing on the same tile", async () => {
-    // Head-on in the two-tile-wide corridor: the traffic rule makes one wait and the other go round.
-    const west = await simulated({ row: 10, col: 6, heading: "E" }, 21);
-    const east = await simulated({ row: 10, col: 14, heading: "W" }, 22);
+  type Pose = { row: number; col: number; heading: "N" | "E" | "S" | "W" };
+  type Leg = { start: Pose; goal: { row: number; col: number }; seed: number };
+
+  /** Sends two simulated robots to their goals at once; returns their ids and every tile they were ever both on. */
+  async function bothReach(a: Leg, b: Leg): Promise<{ ids: string[]; shared: string[] }> {
+    const sims = [await simulated(a.start, a.seed), await simulated(b.start, b.seed)];
     const shared: string[] = [];
     const watch = setInterval(() => {
-      const a = west.runtime().lastTruth;
-      const b = east.runtime().lastTruth;
-      if (a && b && a.row === b.row && a.col === b.col) shared.push(`(${a.row}, ${a.col})`);
+      const [p, q] = sims.map((sim) => sim.runtime().lastTruth);
+      if (p && q && p.row === q.row && p.col === q.col) shared.push(`(${p.row}, ${p.col})`);
     }, 5);
     try {
-      await server.fleet.relocate(west.robot.id, { row: 10, col: 6, heading: "E" }, actor);
-      await server.fleet.relocate(east.robot.id, { row: 10, col: 14, heading: "W" }, actor);
-      await server.fleet.dispatch(west.robot.id, { row: 10, col: 16 }, actor);
-      await server.fleet.dispatch(east.robot.id, { row: 10, col: 4 }, actor);
-      await expect.poll(() => [west.runtime().lastOutcome?.outcome, east.runtime().lastOutcome?.outcome], { timeout: 90_000, interval: 200 }).toEqual(["reached", "reached"]);
-      expect(shared).toEqual([]);
-      // The rule was put to work, not dodged: at least one of them waited for the other.
-      const rows = await server.db.select({ holds: missions.holds }).from(missions).where(inArray(missions.robotId, [west.robot.id, east.robot.id]));
-      expect(rows.reduce((n, r) => n + r.holds, 0)).toBeGreaterThan(0);
+      const legs = [a, b];
+      for (const [i, sim] of sims.entries()) await server.fleet.relocate(sim.robot.id, legs[i].start, actor);
+      for (const [i, sim] of sims.entries()) await server.fleet.dispatch(sim.robot.id, legs[i].goal, actor);
+      await expect.poll(() => sims.map((sim) => sim.runtime().lastOutcome?.outcome), { timeout: 90_000, interval: 200 }).toEqual(["reached", "reached"]);
+      return { ids: sims.map((sim) => sim.robot.id), shared };
     } finally {
       clearInterval(watch);
-      await west.fleet.stop();
-      await east.fleet.stop();
+      for (const sim of sims) await sim.fleet.stop();
     }
+  }
+
+  it("lets two robots cross in the corridor without ever standing on the same tile", async () => {
+    // Head-on in the two-tile-wide corridor: the traffic rule makes one wait and the other go round.
+    const { ids, shared } = await bothReach(
+      { start: { row: 10, col: 6, heading: "E" }, goal: { row: 10, col: 16 }, seed: 21 },
+      { start: { row: 10, col: 14, heading: "W" }, goal: { row: 10, col: 4 }, seed: 22 },
+    );
+    expect(shared).toEqual([]);
+    // The rule was put to work, not dodged: at least one of them waited for the other.
+    const rows = await server.db.select({ holds: missions.holds }).from(missions).where(inArray(missions.robotId, ids));
+    expect(rows.reduce((n, r) => n + r.holds, 0)).toBeGreaterThan(0);
   });
+
   it("has one robot back out of a one-tile doorway when two meet in it, and both reach their goals", async () => {
     // The left lab's only door is (9, 4): no way round exists, so re-planning alone would leave
     // both waiting for ever; the one that gives way steps aside off the other's route.
-    const inside = await simulated({ row: 8, col: 4, heading: "S" }, 41);
-    const outside = await simulated({ row: 10, col: 4, heading: "N" }, 42);
-    const shared: string[] = [];
-    const watch = setInterval(() => {
-      const a = inside.runtime().lastTruth;
-      const b = outside.runtime().lastTruth;
-      if (a && b && a.row === b.row && a.col === b.col) shared.push(`(${a.row}, ${a.col})`);
-    }, 5);
-    try {
-      await server.fleet.relocate(inside.robot.id, { row: 8, col: 4, heading: "S" }, actor);
-      await server.fleet.relocate(outside.robot.id, { row: 10, col: 4, heading: "N" }, actor);
-      await server.fleet.dispatch(inside.robot.id, { row: 11, col: 5 }, actor);
-      await server.fleet.dispatch(outside.robot.id, { row: 7, col: 3 }, actor);
-      await expect.poll(() => [inside.runtime().lastOutcome?.outcome, outside.runtime().lastOutcome?.outcome], { timeout: 90_000, interval: 200 }).toEqual(["reached", "reached"]);
-      expect(shared).toEqual([]);
-      const said = await server.db.select({ message: alerts.message }).from(alerts).where(inArray(alerts.robotId, [inside.robot.id, outside.robot.id]));
-      expect(said.map((a) => a.message).filter((m) => m.includes("backing off")).length).toBeGreaterThan(0);
-    } finally {
-      clearInterval(watch);
-      await inside.fleet.stop();
-      await outside.fleet.stop();
-    }
+    const { ids, shared } = await bothReach(
+      { start: { row: 8, col: 4, heading: "S" }, goal: { row: 11, col: 5 }, seed: 41 },
+      { start: { row: 10, col: 4, heading: "N" }, goal: { row: 7, col: 3 }, seed: 42 },
+    );
+    expect(shared).toEqual([]);
+    const said = await server.db.select({ message: alerts.message }).from(alerts).where(inArray(alerts.robotId, ids));
+    expect(said.map((a) => a.message).filter((m) => m.includes("backing off")).length).toBeGreaterThan(0);
   });
 
   it("carries an admin's kidnap to the simulator and refuses faults for hardware", async () => {
