@@ -85,6 +85,8 @@ const FleetConfigSchema = z.object({
   trafficReplanMs: z.coerce.number().int().min(0).default(6000),
   /** Consecutive moves the robot's odometry says did not happen (bumped, blocked) before it is held with reason fault. */
   stuckAfterMoves: z.coerce.number().int().min(1).default(3),
+  /** A sent step with no `moved` for this long is sent once more; after a second such wait the robot is held with reason fault, ms. */
+  stepTimeoutMs: z.coerce.number().int().min(1000).default(20_000),
   /** Steps after which a mission that has not arrived fails. */
   maxMissionSteps: z.coerce.number().int().min(1).default(400),
   /** Fused steps between belief snapshots. */
@@ -116,6 +118,7 @@ const FLEET_ENV: Record<keyof FleetConfig, string> = {
   trafficMass: "FLEET_TRAFFIC_MASS",
   trafficReplanMs: "FLEET_TRAFFIC_REPLAN_MS",
   stuckAfterMoves: "FLEET_STUCK_AFTER_MOVES",
+  stepTimeoutMs: "FLEET_STEP_TIMEOUT_MS",
   maxMissionSteps: "FLEET_MAX_MISSION_STEPS",
   snapshotEvery: "FLEET_SNAPSHOT_EVERY",
   writeTickMs: "FLEET_WRITE_TICK_MS",

@@ -626,9 +626,18 @@ export class Fleet extends EventEmitter<FleetEvents> {
     mission.step += 1;
     mission.awaiting = "moved";
     mission.lastAction = action;
+    mission.stepSentAt = Date.now();
+    mission.stepResends = 0;
     this.writer.mission(mission.id, { steps: mission.step });
     this.command(runtime, "next", { mission: mission.id, step: mission.step, action });
     this.publish(runtime);
+  }
+
+  /** Sends the pending step again; the robot ignores it when it has already carried it out or is carrying it out. */
+  private resendStep(runtime: RobotRuntime, mission: MissionRuntime): void {
+    if (!mission.lastAction) return;
+    mission.stepSentAt = Date.now();
+    runtime.socket?.emit("next", { mission: mission.id, step: mission.step, action: mission.lastAction });
   }
 
   /** This process's robots, then those other nodes serve (a robot served here is never also a remote peer). */
@@ -754,6 +763,11 @@ export class Fleet extends EventEmitter<FleetEvents> {
     this.command(runtime, "release", mission ? { mission: mission.id } : {});
     logger.info({ robot: runtime.id, by: actor.label }, "robot released");
     if (mission && !mission.awaiting) this.sendNext(runtime);
+    // A step still unanswered is sent again, so a robot held for not answering one can go on.
+    else if (mission?.awaiting === "moved") {
+      mission.stepResends = 0;
+      this.resendStep(runtime, mission);
+    }
     this.publish(runtime);
   }
 
@@ -996,14 +1010,30 @@ export class Fleet extends EventEmitter<FleetEvents> {
         continue;
       }
       const mission = runtime.mission;
-      if (!mission || !runtime.online) continue;
+      if (!runtime.online) continue;
+      // A resume that finds no mission is spent all the same: a mission dispatched later starts afresh.
       if (runtime.resumeAt !== null && now >= runtime.resumeAt) {
         runtime.resumeAt = null;
         // After a reconnect, re-issue the pending step; the robot ignores a step it has already carried out.
-        if (mission.awaiting === "moved" && mission.lastAction && !runtime.hold) {
-          runtime.socket?.emit("next", { mission: mission.id, step: mission.step, action: mission.lastAction });
-        } else if (!mission.awaiting) {
+        if (mission?.awaiting === "moved" && !runtime.hold) {
+          this.resendStep(runtime, mission);
+        } else if (mission && !mission.awaiting) {
           runtime.chain = runtime.chain.then(() => this.advance(runtime, false)).catch((err: unknown) => this.failed(runtime, err, "resume"));
+        }
+      }
+      if (!mission) continue;
+      if (mission.awaiting === "moved" && !runtime.hold && mission.stepSentAt !== null && now - mission.stepSentAt > this.config.stepTimeoutMs) {
+        // The link is up (beats arrive) but the step went unanswered: lost on the way, or the
+        // robot is stuck in it. Once more costs nothing (a robot ignores a step it has carried
+        // out); after that, a person should look.
+        if (mission.stepResends < 1) {
+          mission.stepResends += 1;
+          logger.warn({ robot: runtime.id, mission: mission.id, step: mission.step }, "no moved for a sent step; sending it again");
+          this.resendStep(runtime, mission);
+        } else {
+          mission.stepSentAt = null;
+          const waitedS = Math.round((2 * this.config.stepTimeoutMs) / 1000);
+          this.placeHold(runtime, "fault", `step ${mission.step} was sent twice and not reported done in ${waitedS} s; check the robot before releasing it`);
         }
       }
       if (runtime.hold === "traffic" && !mission.awaiting) {
@@ -1043,5 +1073,5 @@ function seqOf(raw: unknown): number | null {
 }
 
 function newMission(id: number, goal: Tile, versionId: number, policy: MissionRuntime["policy"], step: number, holds: number): MissionRuntime {
-  return { id, goal, versionId, step, awaiting: null, lastAction: null, policy, detour: null, detourAround: null, giveWay: null, armed: false, lowSteps: 0, stays: 0, stuckMoves: 0, claim: null, trafficSince: null, holds, minCertainty: 1 };
+  return { id, goal, versionId, step, awaiting: null, lastAction: null, stepSentAt: null, stepResends: 0, policy, detour: null, detourAround: null, giveWay: null, armed: false, lowSteps: 0, stays: 0, stuckMoves: 0, claim: null, trafficSince: null, holds, minCertainty: 1 };
 }

@@ -18,6 +18,9 @@ export interface MissionRuntime {
   /** What the link waits for in the step cycle. */
   awaiting: "moved" | "sensed" | null;
   lastAction: Action | null;
+  /** When the pending step's `next` last went out, and how often it has been sent again for want of a `moved`. */
+  stepSentAt: number | null;
+  stepResends: number;
   policy: Policy;
   /** A temporary policy around a robot that blocked this one for too long, and the tile it avoids; dropped once that tile is clear. */
   detour: Policy | null;
