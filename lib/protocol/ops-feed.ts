@@ -40,6 +40,8 @@ export const RobotFrameSchema = z.object({
       route: z.array(TileSchema),
       /** The robot it is stepping aside for, when it has backed off so that robot can pass. */
       givingWayTo: z.string().nullable(),
+      /** It follows a way round another robot (or aside for one) instead of its own policy. */
+      detouring: z.boolean(),
     })
     .nullable(),
   /** Recent certainty (tileMass) values, oldest first, for sparklines. */

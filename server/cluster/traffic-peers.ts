@@ -2,7 +2,7 @@
  * The traffic rule across nodes: each node tells the others, through Redis, where the
  * robots it serves stand and which tiles they claim, and keeps what the others told it.
  * Only changes that matter to the rule travel (tile, claim, hold, mission, version, route,
- * stepping aside), a few per step rather than every frame. A robot whose node died stays
+ * detours, stepping aside), a few per step rather than every frame. A robot whose node died stays
  * where it was last seen, which is where it physically stopped, until its new owner reports it.
  */
 import type { Namespace } from "socket.io";
@@ -17,7 +17,7 @@ const ALL = "tessera:traffic:all";
 function keyOf(p: TrafficPeer, trafficMass: number): string {
   const standing = p.standing && p.standing.tileMass >= trafficMass ? `${p.standing.row},${p.standing.col}` : "-";
   const route = p.route.map((t) => `${t.row},${t.col}`).join(";");
-  return `${p.versionId}|${p.claim ? `${p.claim.row},${p.claim.col}` : "-"}|${standing}|${p.hold ?? "-"}|${p.hasMission}|${p.givingWay}|${route}`;
+  return `${p.versionId}|${p.claim ? `${p.claim.row},${p.claim.col}` : "-"}|${standing}|${p.hold ?? "-"}|${p.hasMission}|${p.givingWay}|${p.detouring}|${route}`;
 }
 
 /** Wires `fleet.remotePeers` to what the other nodes report, and reports this node's robots to them. */

@@ -660,8 +660,9 @@ export class Fleet extends EventEmitter<FleetEvents> {
       return;
     }
     if (mission.trafficSince === null || now - mission.trafficSince < this.config.trafficReplanMs) return;
-    // A robot on its way aside is clearing this one's way: waiting for it is the plan.
-    if (blocker.givingWay && blocker.hold !== "traffic") return;
+    // A robot on its way round or aside is clearing this one's way: waiting for it is the plan.
+    // Going round it as well would have both side-step the same way and meet again.
+    if (blocker.detouring && blocker.hold !== "traffic") return;
     // Two robots waiting on each other would both detour the same way and meet again:
     // only the one with the larger id gives way; a robot blocked by a parked one, or by one
     // that is itself stepping aside, always does.

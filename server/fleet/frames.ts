@@ -36,7 +36,7 @@ export function robotFrame(runtime: RobotRuntime): RobotFrame {
     holdReason: runtime.hold,
     battery: runtime.battery,
     estimate: { row: c.row, col: c.col, heading: HEADINGS[c.heading], tileMass: c.tileMass, entropy: c.entropy },
-    mission: m ? { id: m.id, goal: m.goal, step: m.step, claim: m.claim, route: missionRoute(runtime), givingWayTo: m.giveWay?.to ?? null } : null,
+    mission: m ? { id: m.id, goal: m.goal, step: m.step, claim: m.claim, route: missionRoute(runtime), givingWayTo: m.giveWay?.to ?? null, detouring: m.detour !== null } : null,
     certaintyHistory: [...runtime.certaintyHistory],
     lastMessageAt: runtime.lastMessageAt,
   };

@@ -2,7 +2,7 @@
 import { describe, expect, it } from "vitest";
 import { trafficBlocker, type TrafficPeer } from "./traffic";
 
-const peer = (over: Partial<TrafficPeer>): TrafficPeer => ({ id: "b", name: "Otter", versionId: 1, hold: null, hasMission: true, claim: null, standing: null, route: [], givingWay: false, ...over });
+const peer = (over: Partial<TrafficPeer>): TrafficPeer => ({ id: "b", name: "Otter", versionId: 1, hold: null, hasMission: true, claim: null, standing: null, route: [], givingWay: false, detouring: false, ...over });
 const tile = { row: 4, col: 7 };
 
 describe("trafficBlocker", () => {

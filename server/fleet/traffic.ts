@@ -24,6 +24,8 @@ export interface TrafficPeer {
   readonly route: readonly Tile[];
   /** It is stepping aside for another robot, so waiting for it is not a standoff. */
   givingWay: boolean;
+  /** It follows a way round (or aside from) another robot: while it moves, it is clearing the way. */
+  detouring: boolean;
 }
 
 export function peerOfRuntime(r: RobotRuntime): TrafficPeer {
@@ -41,6 +43,7 @@ export function peerOfRuntime(r: RobotRuntime): TrafficPeer {
       return missionRoute(r);
     },
     givingWay: r.mission?.giveWay != null,
+    detouring: r.mission?.detour != null,
   };
 }
 
@@ -48,7 +51,7 @@ export function peerOfFrame(f: RobotFrame): TrafficPeer | null {
   if (f.versionId === null) return null;
   const standing = (f.online || f.mission) && f.estimate ? { row: f.estimate.row, col: f.estimate.col, tileMass: f.estimate.tileMass } : null;
   const m = f.mission;
-  return { id: f.robotId, name: f.name, versionId: f.versionId, hold: f.holdReason, hasMission: m !== null, claim: m?.claim ?? null, standing, route: m?.route ?? [], givingWay: m?.givingWayTo != null };
+  return { id: f.robotId, name: f.name, versionId: f.versionId, hold: f.holdReason, hasMission: m !== null, claim: m?.claim ?? null, standing, route: m?.route ?? [], givingWay: m?.givingWayTo != null, detouring: m?.detouring ?? false };
 }
 
 /** The peer that keeps robot `self` (on `versionId`) off `tile`, or null; `trafficMass` is the tile mass that counts as standing there. */

@@ -25,13 +25,13 @@ afterAll(async () => {
   await server.stop();
 });
 
-async function simulated(start: { row: number; col: number; heading: "N" | "E" | "S" | "W" }, seed: number) {
+async function simulated(start: { row: number; col: number; heading: "N" | "E" | "S" | "W" }, seed: number, timeScale = 25) {
   const robot = await server.addRobot({ simulated: true });
   const fleet = await startFleet({
     url: server.url,
     plan,
     seed,
-    timeScale: 25,
+    timeScale,
     robots: [{ ...robot, name: robot.id, drive: "differential", sensors: TEST_SENSORS, start }],
   });
   await expect.poll(() => server.fleet.robots.get(robot.id)?.online, { timeout: 5000 }).toBe(true);
@@ -153,11 +153,11 @@ describe("simulated missions", { timeout: 120_000 }, () => {
   });
 
   type Pose = { row: number; col: number; heading: "N" | "E" | "S" | "W" };
-  type Leg = { start: Pose; goal: { row: number; col: number }; seed: number };
+  type Leg = { start: Pose; goal: { row: number; col: number }; seed: number; timeScale?: number };
 
   /** Sends two simulated robots to their goals at once; returns their ids and every tile they were ever both on. */
   async function bothReach(a: Leg, b: Leg): Promise<{ ids: string[]; shared: string[] }> {
-    const sims = [await simulated(a.start, a.seed), await simulated(b.start, b.seed)];
+    const sims = [await simulated(a.start, a.seed, a.timeScale), await simulated(b.start, b.seed, b.timeScale)];
     const shared: string[] = [];
     const watch = setInterval(() => {
       const [p, q] = sims.map((sim) => sim.runtime().lastTruth);
@@ -185,6 +185,20 @@ describe("simulated missions", { timeout: 120_000 }, () => {
     // The rule was put to work, not dodged: at least one of them waited for the other.
     const rows = await server.db.select({ holds: missions.holds }).from(missions).where(inArray(missions.robotId, ids));
     expect(rows.reduce((n, r) => n + r.holds, 0)).toBeGreaterThan(0);
+  });
+
+  it("has two robots that meet face to face in an open room pass with one going round, while the other waits", async () => {
+    // Both going round at once would side-step the same way and meet again, over and over. At
+    // a slow enough pace the one that waits runs out of patience while the other is on its way
+    // round, which is when it must keep waiting.
+    const { ids, shared } = await bothReach(
+      { start: { row: 3, col: 3, heading: "S" }, goal: { row: 6, col: 3 }, seed: 51, timeScale: 2 },
+      { start: { row: 4, col: 3, heading: "N" }, goal: { row: 1, col: 3 }, seed: 52, timeScale: 2 },
+    );
+    expect(shared).toEqual([]);
+    const said = await server.db.select({ robotId: alerts.robotId, message: alerts.message }).from(alerts).where(inArray(alerts.robotId, ids));
+    const replanned = new Set(said.filter((a) => a.message.includes("re-planning around")).map((a) => a.robotId));
+    expect(replanned.size).toBe(1);
   });
 
   it("has one robot back out of a one-tile doorway when two meet in it, and both reach their goals", async () => {

@@ -71,7 +71,7 @@ describe("robot frames", () => {
   it("clears a pending goal once a frame carries that goal, not another", () => {
     const store = createFloorStore(snapshot([robot("r1", "Ada")]));
     store.getState().setPendingGoal("r1", { row: 1, col: 2 });
-    const mission = (row: number, col: number) => ({ id: 41, goal: { row, col }, step: 0, claim: null, route: [{ row, col }], givingWayTo: null });
+    const mission = (row: number, col: number) => ({ id: 41, goal: { row, col }, step: 0, claim: null, route: [{ row, col }], givingWayTo: null, detouring: false });
     store.getState().upsertRobot(robot("r1", "Ada", { mission: mission(0, 1) }));
     expect(store.getState().pendingGoals.r1).toEqual({ row: 1, col: 2 });
     store.getState().upsertRobot(robot("r1", "Ada", { mission: mission(1, 2) }));
