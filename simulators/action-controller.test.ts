@@ -1,9 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { emptyFloorplan, parseFloorplan } from "../lib/floorplan";
-import { createActionController, defaultControlParams, lateralOffsetM, runAction, type ControlParams, type SideRanges } from "./action-controller";
+import { createActionController, defaultControlParams, runAction, type ControlParams } from "./action-controller";
 import { createSimState, defaultPlantParams, poseTile, stallWheel, stepRobot, thetaHeading, type PlantParams, type SimState } from "./robot-physics";
 import { createRng } from "./rng";
-import { defaultSensorParams, readRange } from "./sim-sensors";
 
 const plan = emptyFloorplan(12, 14);
 const DEG = 180 / Math.PI;
@@ -119,55 +118,6 @@ describe("bicycle arcs", () => {
       expect(left.report.distanceM).toBeCloseTo((Math.PI / 2) * plan.tileM, 2);
     }
     expect(hits).toBeGreaterThanOrEqual(SEEDS.length - 2);
-  });
-});
-
-describe("centring on the tile's centre line from the side rangers", () => {
-  const T = 0.3048;
-
-  it("reads the offset from the remainder of each side range past the last whole tile", () => {
-    // Centred, a wall one tile boundary away reads ½ tile, the next one 1½ tiles.
-    expect(lateralOffsetM(T, 0.5 * T, 1.5 * T, 1.2)).toBeCloseTo(0, 12);
-    // 3 cm left of centre: the left wall 3 cm nearer, the right one 3 cm farther.
-    expect(lateralOffsetM(T, 0.5 * T - 0.03, 1.5 * T + 0.03, 1.2)).toBeCloseTo(0.03, 12);
-    expect(lateralOffsetM(T, null, 0.5 * T - 0.02, 1.2)).toBeCloseTo(-0.02, 12);
-    // Past the range limit, or no echo: nothing to go on.
-    expect(lateralOffsetM(T, 1.3, null, 1.2)).toBeNull();
-    expect(lateralOffsetM(T, null, null, 1.2)).toBeNull();
-    // A short echo 0.45 tile off any boundary cannot be told from the next one: not used, so
-    // only the right wall counts, 1 cm farther than centred: 1 cm left.
-    expect(lateralOffsetM(T, 0.05 * T, 0.5 * T + 0.01, 1.2)).toBeCloseTo(0.01, 12);
-  });
-
-  it("keeps a biased base within a few centimetres of the centre line over 40 tiles, where heading hold alone drifts onto the wall", () => {
-    // A corridor three tiles wide, the robot in its top lane with a wall beside it. Heading hold
-    // cannot see sideways drift (CHECKS.md "Facts of the trade", common practice: wall-referenced
-    // centring with side rangers is how corridor robots keep off the walls).
-    const corridor = parseFloorplan(["1".repeat(44), ...Array.from({ length: 3 }, () => "1" + "0".repeat(42) + "1"), "1".repeat(44)].join("\n"));
-    const plant = biasedBase();
-    const sensors = defaultSensorParams();
-    const drift = (centring: boolean) =>
-      SEEDS.slice(0, 20).map((seed) => {
-        const rng = createRng(seed);
-        const rangerRng = createRng(seed + 1);
-        const side: SideRanges = (s) => ({
-          leftM: readRange(s, { id: "left", kind: "range", bearingDeg: 90, maxRangeM: 3 }, sensors, rangerRng),
-          rightM: readRange(s, { id: "right", kind: "range", bearingDeg: -90, maxRangeM: 3 }, sensors, rangerRng),
-        });
-        let state = createSimState(corridor, plant, { row: 1, col: 1, heading: 1 });
-        const y0 = state.pose.y;
-        let most = 0;
-        for (let k = 0; k < 40; k++) {
-          state = runAction(state, "forward", defaultControlParams(), rng, 0.01, centring ? side : undefined).state;
-          most = Math.max(most, Math.abs(state.pose.y - y0));
-        }
-        return most;
-      });
-    const centred = drift(true);
-    const held = drift(false);
-    expect(Math.max(...centred)).toBeLessThan(0.03);
-    // Without centring, half the runs end up well off the line (the wall stops the drift at about 5 cm).
-    expect(held.filter((d) => d > 0.04).length).toBeGreaterThanOrEqual(10);
   });
 });
 

@@ -6,9 +6,7 @@
  * - `forward` drives one tile length of encoder travel along the tile heading nearest to
  *   the current estimate, with a trapezoidal speed profile; a gyro-fed PID (lib createPid)
  *   holds the heading, its output a turn rate. With the hold off the wheels get equal
- *   commands and wheel bias and slip bend the path. With side rangers the held heading leans
- *   back towards the tile's centre line (see lateralOffsetM): heading hold alone cannot see
- *   sideways drift, which over a few dozen tiles brings the body onto a wall's corner.
+ *   commands and wheel bias and slip bend the path.
  * - `left`/`right`, differential: turn in place until the gyro estimate reaches the target.
  *   With turnTarget "grid" the target is the grid heading 90° from the nearest grid heading
  *   of the estimate (the robot re-squares on the commanded heading each turn); "relative"
@@ -47,16 +45,7 @@ export interface ControlParams {
   maxHeadingErrorRad: number;
   /** Longest wait for the wheels to come to rest at the end, seconds. */
   settleS: number;
-  /** Centring on a forward move: heading lean per metre off the tile's centre line (0: off), rad/m. */
-  centringGainRadM: number;
-  /** The steepest lean the centring may ask for, radians. */
-  maxCentringRad: number;
-  /** Side ranges farther than this are not used for centring (a small heading error stretches long ones), metres. */
-  centringRangeM: number;
 }
-
-/** The robot's side rangers, read when the controller asks: metres to the first echo on its left and right, null for no echo or no such ranger. */
-export type SideRanges = (state: SimState) => { leftM: number | null; rightM: number | null };
 
 /** Default controller settings for the demo robots (gains picked by hand on the plant of robot-physics.ts). */
 export function defaultControlParams(): ControlParams {
@@ -71,32 +60,7 @@ export function defaultControlParams(): ControlParams {
     maxActionS: 8,
     maxHeadingErrorRad: (25 * Math.PI) / 180,
     settleS: 1,
-    centringGainRadM: 3,
-    maxCentringRad: (8 * Math.PI) / 180,
-    centringRangeM: 1.2,
   };
-}
-
-/**
- * How far the robot sits to the left of its tile's centre line, in metres, from side ranges
- * to walls: every wall face beside a robot on a tile floor lies on a tile boundary, so a
- * centred robot reads (k + ½)·tileM on either side, and the remainder is the offset (left
- * reading short: it sits left; right reading short: it sits right). Ranges past `maxUseM`
- * and remainders past 0.4 tile (a short echo, or too far off to tell which boundary) are
- * not used; the usable ones are averaged. Null when none is usable.
- */
-export function lateralOffsetM(tileM: number, leftM: number | null, rightM: number | null, maxUseM: number): number | null {
-  const remainder = (d: number | null): number | null => {
-    if (d === null || !(d > 0) || d > maxUseM) return null;
-    const r = (Math.round(d / tileM - 0.5) + 0.5) * tileM - d;
-    return Math.abs(r) <= 0.4 * tileM ? r : null;
-  };
-  const left = remainder(leftM);
-  const rightRemainder = remainder(rightM);
-  const right = rightRemainder === null ? null : -rightRemainder;
-  if (left === null) return right;
-  if (right === null) return left;
-  return (left + right) / 2;
 }
 
 /** What the robot itself reports after an action: encoder distance, gyro turn, and how it ended. */
@@ -128,10 +92,6 @@ const ARRIVED_M = 0.0005;
 const CREEP_MS = 0.015;
 const STILL_RAD_S = 0.02;
 const MIN_STEER_SPEED_MS = 0.05;
-/** Side rangers ping at 20 Hz, common for ultrasonic rangers (their echoes must die out between pings). */
-const RANGE_PERIOD_S = 0.05;
-/** Weight of each new lateral offset in the smoothed one, against ranger noise. */
-const OFFSET_SMOOTHING = 0.3;
 
 /** The multiple of π/2 nearest to an angle. */
 function nearestGrid(angleRad: number): number {
@@ -140,8 +100,8 @@ function nearestGrid(angleRad: number): number {
 
 const meanEncoder = (state: SimState) => (state.encoderLeftM + state.encoderRightM) / 2;
 
-/** Creates the controller for `action`, starting from `state` (its estimate and encoders are the reference); `sideRanges` enables centring. */
-export function createActionController(action: Action, state: SimState, control: ControlParams, sideRanges?: SideRanges): ActionController {
+/** Creates the controller for `action`, starting from `state` (its estimate and encoders are the reference). */
+export function createActionController(action: Action, state: SimState, control: ControlParams): ActionController {
   const drive = state.params.drive;
   const tileM = state.plan.tileM;
   const startS = state.timeS;
@@ -165,24 +125,6 @@ export function createActionController(action: Action, state: SimState, control:
   let aborted = false;
   let endS = startS;
   let endEncoder = startEncoder;
-  const centring = action === "forward" && control.headingHold && control.centringGainRadM > 0 && sideRanges !== undefined;
-  let offsetM: number | null = null;
-  let nextPingS = startS;
-  let lean = 0;
-
-  /** The heading to hold: the tile heading, leaning back towards the centre line when the side rangers show the robot off it. */
-  const holdHeading = (current: SimState): number => {
-    if (!centring || !sideRanges) return target;
-    if (current.timeS >= nextPingS) {
-      nextPingS = current.timeS + RANGE_PERIOD_S;
-      const { leftM, rightM } = sideRanges(current);
-      const measured = lateralOffsetM(tileM, leftM, rightM, control.centringRangeM);
-      if (measured !== null) offsetM = offsetM === null ? measured : offsetM + OFFSET_SMOOTHING * (measured - offsetM);
-      // Offset to the left asks for a lean to the right (clockwise, negative).
-      if (offsetM !== null) lean = Math.max(-control.maxCentringRad, Math.min(control.maxCentringRad, -control.centringGainRadM * offsetM));
-    }
-    return wrapRadians(target + lean);
-  };
 
   const enterSettle = (timeS: number) => {
     phase = "settle";
@@ -230,7 +172,6 @@ export function createActionController(action: Action, state: SimState, control:
       const travelled = encoder - startEncoder;
       if (settleStartS === null) settleStartS = current.timeS;
 
-      const held = action === "forward" ? holdHeading(current) : target;
       if (phase === "run") {
         if (current.bumped) {
           bumped = true;
@@ -238,7 +179,7 @@ export function createActionController(action: Action, state: SimState, control:
         } else if (current.timeS - startS > control.maxActionS) {
           gaveUp = true;
           enterSettle(current.timeS);
-        } else if (action === "forward" && control.headingHold && Math.abs(wrapRadians(held - heading)) > control.maxHeadingErrorRad) {
+        } else if (action === "forward" && control.headingHold && Math.abs(wrapRadians(target - heading)) > control.maxHeadingErrorRad) {
           gaveUp = true;
           enterSettle(current.timeS);
         }
@@ -251,7 +192,7 @@ export function createActionController(action: Action, state: SimState, control:
             enterSettle(current.timeS);
           } else {
             const v = speedFor(remaining);
-            const reference = isArc ? base + (side * travelled) / tileM : held;
+            const reference = isArc ? base + (side * travelled) / tileM : target;
             const feedForward = isArc ? (side * v) / tileM : 0;
             const correction = control.headingHold || isArc ? pid.step(wrapRadians(reference - heading), dtS) : 0;
             return wheels(v, feedForward + correction);
@@ -291,9 +232,9 @@ export function createActionController(action: Action, state: SimState, control:
 }
 
 /** Runs one whole action on the plant with fixed steps of dtS seconds (default 10 ms); returns the final state and the robot's report. */
-export function runAction(state: SimState, action: Action, control: ControlParams, rng: Rng, dtS = 0.01, sideRanges?: SideRanges): { state: SimState; report: ActionReport } {
+export function runAction(state: SimState, action: Action, control: ControlParams, rng: Rng, dtS = 0.01): { state: SimState; report: ActionReport } {
   if (!(dtS > 0)) throw new RangeError("runAction: dtS must be positive");
-  const controller = createActionController(action, state, control, sideRanges);
+  const controller = createActionController(action, state, control);
   const maxSteps = Math.ceil((control.maxActionS + 2 * control.settleS) / dtS) + 2;
   let current = state;
   for (let i = 0; i < maxSteps; i++) {

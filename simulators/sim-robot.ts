@@ -19,7 +19,7 @@ import type { ServerMessage } from "../lib/protocol";
 import type { Sensor } from "../lib/sensing";
 import { HEADINGS, type Drive, type Heading } from "../lib/vocabulary";
 import { createRobotClient, type LinkLogger, type LinkState, type RobotClient, type RobotClientOptions, type SeqStore } from "../robots/link-client";
-import { createActionController, defaultControlParams, type ActionController, type ControlParams, type SideRanges } from "./action-controller";
+import { createActionController, defaultControlParams, type ActionController, type ControlParams } from "./action-controller";
 import {
   createSimState,
   drainBattery,
@@ -32,8 +32,8 @@ import {
   type SimState,
   type Wheel,
 } from "./robot-physics";
-import { createRng, deriveSeed, type Rng } from "./rng";
-import { defaultSensorParams, readRange, readSensors, truthOf, type SensorParams } from "./sim-sensors";
+import { createRng, deriveSeed } from "./rng";
+import { defaultSensorParams, readSensors, truthOf, type SensorParams } from "./sim-sensors";
 
 /** A simulated robot as the fleet file (.data/demo-fleet.json) lists it. */
 export interface SimRobotSpec {
@@ -127,7 +127,6 @@ export function startSimRobot(opts: SimRobotOptions): SimHandle {
   const sensorParams = opts.sensorParams ?? defaultSensorParams();
   let control = opts.control ?? defaultControlParams();
   let state: SimState = createSimState(plan, plant, { row: spec.start.row, col: spec.start.col, heading: HEADINGS.indexOf(spec.start.heading) });
-  const sideRanges = sideRangesOf(spec.sensors, sensorParams, createRng(deriveSeed(opts.seed, 2)));
 
   let controller: ActionController | null = null;
   let current: ServerMessage["next"] | null = null;
@@ -239,7 +238,7 @@ export function startSimRobot(opts: SimRobotOptions): SimHandle {
 
   function begin(msg: ServerMessage["next"]) {
     current = msg;
-    controller = createActionController(msg.action, state, control, sideRanges);
+    controller = createActionController(msg.action, state, control);
     emit("next", { mission: msg.mission, step: msg.step, action: msg.action });
   }
 
@@ -354,18 +353,4 @@ export function startSimRobot(opts: SimRobotOptions): SimHandle {
     },
   };
   return handle;
-}
-
-/** The rangers pointing straight left and right, read for the on-board centring (their own noise stream, so the reported readings stay as seeded); undefined when the robot has neither. */
-function sideRangesOf(sensors: readonly Sensor[], params: SensorParams, rng: Rng): SideRanges | undefined {
-  const ranger = (bearingDeg: number) => sensors.find((s): s is Extract<Sensor, { kind: "range" }> => s.kind === "range" && s.bearingDeg === bearingDeg);
-  const left = ranger(90);
-  const right = ranger(-90);
-  if (!left && !right) return undefined;
-  const read = (sensor: Extract<Sensor, { kind: "range" }> | undefined, state: SimState) => {
-    if (!sensor) return null;
-    const m = readRange(state, sensor, params, rng);
-    return m >= sensor.maxRangeM ? null : m;
-  };
-  return (state) => ({ leftM: read(left, state), rightM: read(right, state) });
 }
