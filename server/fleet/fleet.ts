@@ -35,7 +35,7 @@ import type { FleetConfig } from "../config";
 import { TesseraError } from "../errors";
 import { logger } from "../logger";
 import { PolicyCache } from "./policy-cache";
-import { likelyTile, routePreview } from "./route-preview";
+import { likelyTile, missionRoute } from "./route-preview";
 import { MODELS_EVENT } from "./models-at";
 import { applyToFilter, FILTER_EVENT_KINDS } from "./filter-events";
 import { missionRef, robotFrame, robotState } from "./frames";
@@ -725,8 +725,7 @@ export class Fleet extends EventEmitter<FleetEvents> {
   private givenWay(runtime: RobotRuntime, mission: MissionRuntime, to: string): boolean {
     const other = [...this.peers()].find((p) => p.id === to);
     if (!other || !other.hasMission || other.versionId !== runtime.versionId) return true;
-    const c = runtime.certainty();
-    const own = routePreview(runtime.plan, runtime.filter.table, mission.policy.action, stateIndex(runtime.plan, c.row, c.col, c.heading), mission.goal);
+    const own = missionRoute(runtime, mission.policy);
     return !occupiedTiles(other).some((t) => onRoute(own, t));
   }
 

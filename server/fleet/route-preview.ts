@@ -43,11 +43,11 @@ export function routePreview(plan: Floorplan, table: TransitionTable, action: Ui
   return route;
 }
 
-/** The route of a robot's mission from its most likely pose, under the policy it follows now; empty without a mission. */
-export function missionRoute(runtime: RobotRuntime): Tile[] {
+/** The route of a robot's mission from its most likely pose, under the policy it follows now (or `policy`); empty without a mission. */
+export function missionRoute(runtime: RobotRuntime, policy?: { action: Uint8Array }): Tile[] {
   const m = runtime.mission;
   if (!m) return [];
   const c = runtime.certainty();
   const here = stateIndex(runtime.plan, c.row, c.col, c.heading);
-  return routePreview(runtime.plan, runtime.filter.table, (m.detour ?? m.policy).action, here, m.goal);
+  return routePreview(runtime.plan, runtime.filter.table, (policy ?? m.detour ?? m.policy).action, here, m.goal);
 }
